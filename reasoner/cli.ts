@@ -1,0 +1,39 @@
+// Command line for the reasoner: a thin dispatcher over the library; each command lives in reasoner/commands/.
+
+const commands: Record<string, () => Promise<{ run(args: string[]): Promise<number> }>> = {
+  check: () => import('./commands/check.js'),
+  normalize: () => import('./commands/normalize.js'),
+  rewrite: () => import('./commands/rewrite.js'),
+  entail: () => import('./commands/entail.js'),
+};
+
+const usage = `usage: npm run reason -- <command> [options]
+commands:
+  check     --ontology FILE [--json] [--approximate]   profile report (Horn-ALCHIQ / ALCHIQ / outside)
+  normalize --ontology FILE [--approximate]            normal form in logical notation, with source positions
+  rewrite   --ontology FILE [--asp FILE]               rule program and statistics
+  entail    --ontology FILE [--data FILE ...] [--stats] entailed facts as N-Triples on stdout
+exit status: 0 success, 2 input error, 3 inconsistent knowledge base`;
+
+async function main(argv: string[]): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === '--help' || name === '-h') {
+    process.stderr.write(usage + '\n');
+    return name ? 0 : 2;
+  }
+  const load = commands[name];
+  if (!load) {
+    process.stderr.write(`unknown command "${name}"\n${usage}\n`);
+    return 2;
+  }
+  const command = await load();
+  return command.run(rest);
+}
+
+main(process.argv.slice(2)).then(
+  (code) => { process.exitCode = code; },
+  (error: unknown) => {
+    process.stderr.write(`internal error: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.exitCode = 1;
+  },
+);
