@@ -1,0 +1,3 @@
+import type { RouteRecordRaw } from 'vue-router';
+
+export const authRoutes: RouteRecordRaw[] = [];

@@ -1,0 +1,4 @@
+// Every migration, in order. Migrations are committed and never edited after they land.
+import { Users1764600000000 } from './1764600000000-Users.js';
+
+export const migrations = [Users1764600000000];

@@ -1,0 +1,15 @@
+// Mounts every feature router. Each feature adds its own lines; keep this file a table of contents.
+import type { Express } from 'express';
+import type { AppContext } from '../context.js';
+
+/** Routes that must see the raw body (signed webhooks): mounted before the JSON parser. */
+export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
+  void app;
+  void ctx;
+}
+
+/** Cookie-authenticated and public routes under /api, plus the key-authenticated /api/v1. */
+export function mountRoutes(app: Express, ctx: AppContext): void {
+  void app;
+  void ctx;
+}
