@@ -1,0 +1,352 @@
+// The fact store: per-version term dictionary (kb_terms_<key>) and fact table (kb_facts_<key>), bulk-loaded by COPY, read by pattern.
+//
+// Layout, per version (key = kb_versions.store_key, a small integer, so table names are never built from user input):
+//   kb_terms_<key> (id int PRIMARY KEY, term text)          hash index on term — literals may exceed a B-tree entry's size
+//   kb_facts_<key> (s int, p int, o int, asserted boolean)  B-tree indexes (s,p,o), (p,o,s), (o,s,p), each INCLUDE (asserted)
+// The three orders answer all eight atomic patterns by an index range: every set of bound positions is a prefix of one of them
+// (s, sp, spo → spo; p, po → pos; o, so → osp; none → spo).
+//
+// Atomic visibility: both tables are created, filled (COPY ... FREEZE), indexed and analysed inside ONE transaction that also flips
+// the version's status to 'ready'. Until that COMMIT no other session sees the tables; a worker killed mid-load leaves nothing
+// behind (the transaction rolls back with the connection), and a retry starts from `DROP TABLE IF EXISTS`.
+import type pg from 'pg';
+import copyStreams from 'pg-copy-streams';
+
+const RDF_TYPE = 'http://www.w3.org/1999/02/22-rdf-syntax-ns#type';
+
+export interface FactPattern { subject?: string; predicate?: string; object?: string }
+export interface StoredFact { subject: string; predicate: string; object: string; asserted: boolean }
+export interface FactPage { facts: StoredFact[]; nextCursor: string | null }
+export interface PublishedVersion { listingId: string; versionId: string; storeKey: number; number: number; factCount: number }
+
+/** Thrown for a cursor that this store did not hand out (or one from another pattern's order). */
+export class InvalidCursorError extends Error {
+  constructor() {
+    super('The cursor is not valid for this query; start again without a cursor.');
+  }
+}
+
+export const MAX_PAGE_SIZE = 10_000;
+
+type Position = 's' | 'p' | 'o';
+const ORDERS: Record<string, readonly [Position, Position, Position]> = {
+  spo: ['s', 'p', 'o'],
+  pos: ['p', 'o', 's'],
+  osp: ['o', 's', 'p'],
+};
+
+/** Returns the index order whose leading columns are exactly the bound positions of the pattern. */
+function orderFor(pattern: FactPattern): 'spo' | 'pos' | 'osp' {
+  const s = pattern.subject !== undefined, p = pattern.predicate !== undefined, o = pattern.object !== undefined;
+  if (p && !s) return 'pos';
+  if (o && !p) return 'osp';
+  return 'spo';
+}
+
+export function factsTable(storeKey: number): string {
+  return `kb_facts_${checkKey(storeKey)}`;
+}
+export function termsTable(storeKey: number): string {
+  return `kb_terms_${checkKey(storeKey)}`;
+}
+function checkKey(storeKey: number): number {
+  if (!Number.isSafeInteger(storeKey) || storeKey <= 0) throw new Error(`store key must be a positive integer, got ${storeKey}`);
+  return storeKey;
+}
+
+/** Cursor: base64url of "<order>:<c1>.<c2>.<c3>" — the last row's ids in the index order. Opaque to callers. */
+function encodeCursor(order: string, row: { s: number; p: number; o: number }): string {
+  const cols = ORDERS[order]!;
+  return Buffer.from(`${order}:${cols.map((c) => row[c]).join('.')}`).toString('base64url');
+}
+function decodeCursor(cursor: string, order: string): [number, number, number] {
+  const text = Buffer.from(cursor, 'base64url').toString('utf8');
+  const match = /^(spo|pos|osp):(\d{1,10})\.(\d{1,10})\.(\d{1,10})$/.exec(text);
+  if (!match || match[1] !== order) throw new InvalidCursorError();
+  return [Number(match[2]), Number(match[3]), Number(match[4])];
+}
+
+/** Builds the one SQL statement for a pattern: bound terms resolve by scalar sub-selects (unknown term → NULL → no rows). */
+function patternQuery(storeKey: number, pattern: FactPattern, from: 'rows' | 'count') {
+  const facts = factsTable(storeKey), terms = termsTable(storeKey);
+  const params: unknown[] = [];
+  const where: string[] = [];
+  const bind = (col: Position, term: string | undefined) => {
+    if (term === undefined) return;
+    params.push(term);
+    where.push(`f.${col} = (SELECT id FROM ${terms} WHERE term = $${params.length})`);
+  };
+  bind('s', pattern.subject);
+  bind('p', pattern.predicate);
+  bind('o', pattern.object);
+  return { facts, terms, params, where, from };
+}
+
+/**
+ * Facts matching an atomic pattern, in a stable order, one page at a time (keyset pagination on the index that serves the pattern).
+ * One SQL statement per call. A version whose tables do not exist (not ready, deleted) gives no facts.
+ */
+export async function lookupFacts(
+  pool: pg.Pool | pg.PoolClient,
+  storeKey: number,
+  pattern: FactPattern,
+  page: { limit: number; cursor?: string | null },
+): Promise<FactPage> {
+  const limit = Math.max(1, Math.min(MAX_PAGE_SIZE, Math.floor(page.limit) || 1));
+  const order = orderFor(pattern);
+  const cols = ORDERS[order]!;
+  const q = patternQuery(storeKey, pattern, 'rows');
+  if (page.cursor) {
+    const after = decodeCursor(page.cursor, order);
+    q.params.push(after[0], after[1], after[2]);
+    const n = q.params.length;
+    // Row comparison matches the index order, so PostgreSQL starts the index range right after the cursor.
+    q.where.push(`(f.${cols[0]}, f.${cols[1]}, f.${cols[2]}) > ($${n - 2}::int, $${n - 1}::int, $${n}::int)`);
+  }
+  q.params.push(limit + 1);
+  const sql = `SELECT ts.term AS subject, tp.term AS predicate, tob.term AS object, f.asserted, f.s, f.p, f.o
+    FROM ${q.facts} f
+    JOIN ${q.terms} ts ON ts.id = f.s
+    JOIN ${q.terms} tp ON tp.id = f.p
+    JOIN ${q.terms} tob ON tob.id = f.o
+    ${q.where.length ? 'WHERE ' + q.where.join(' AND ') : ''}
+    ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]}
+    LIMIT $${q.params.length}`;
+  let rows: { subject: string; predicate: string; object: string; asserted: boolean; s: number; p: number; o: number }[];
+  try {
+    rows = (await pool.query(sql, q.params)).rows;
+  } catch (error) {
+    if ((error as { code?: string }).code === '42P01') return { facts: [], nextCursor: null };
+    throw error;
+  }
+  const more = rows.length > limit;
+  if (more) rows.length = limit;
+  const last = rows[rows.length - 1];
+  return {
+    facts: rows.map((r) => ({ subject: r.subject, predicate: r.predicate, object: r.object, asserted: r.asserted })),
+    nextCursor: more && last ? encodeCursor(order, last) : null,
+  };
+}
+
+/** Number of facts matching a pattern (an index-only count; cheap for bound patterns, a full index scan when nothing is bound). */
+export async function countFacts(pool: pg.Pool | pg.PoolClient, storeKey: number, pattern: FactPattern): Promise<number> {
+  const q = patternQuery(storeKey, pattern, 'count');
+  const sql = `SELECT count(*)::bigint AS n FROM ${q.facts} f ${q.where.length ? 'WHERE ' + q.where.join(' AND ') : ''}`;
+  try {
+    return Number((await pool.query(sql, q.params)).rows[0].n);
+  } catch (error) {
+    if ((error as { code?: string }).code === '42P01') return 0;
+    throw error;
+  }
+}
+
+/** The version a listing currently serves (status 'ready' and published), or null. */
+export async function publishedVersionBySlug(pool: pg.Pool | pg.PoolClient, slug: string): Promise<PublishedVersion | null> {
+  const { rows } = await pool.query(
+    `SELECT l.id AS listing_id, v.id AS version_id, v.store_key, v.number, v.fact_count
+       FROM listings l JOIN kb_versions v ON v.id = l.published_version_id
+      WHERE l.slug = $1 AND v.status = 'ready'`,
+    [slug],
+  );
+  const row = rows[0];
+  if (!row) return null;
+  return { listingId: row.listing_id, versionId: row.version_id, storeKey: row.store_key, number: row.number, factCount: Number(row.fact_count ?? 0) };
+}
+
+/** Drops a version's fact tables (both, if present). Used on delete and before a retry. */
+export async function dropFactTables(pool: pg.Pool | pg.PoolClient, storeKey: number): Promise<void> {
+  await pool.query(`DROP TABLE IF EXISTS ${factsTable(storeKey)}, ${termsTable(storeKey)}`);
+}
+
+/** Whether a version's fact tables are visible (committed). */
+export async function factTablesExist(pool: pg.Pool | pg.PoolClient, storeKey: number): Promise<boolean> {
+  const { rows } = await pool.query(`SELECT to_regclass($1) IS NOT NULL AND to_regclass($2) IS NOT NULL AS ok`, [factsTable(storeKey), termsTable(storeKey)]);
+  return rows[0].ok === true;
+}
+
+export interface PredicateCount { asserted: number; entailed: number }
+export interface LoadStats {
+  facts: number;
+  asserted: number;
+  terms: number;
+  /** Per class IRI (objects of rdf:type facts): asserted, and entailed (asserted included). */
+  perClass: Record<string, PredicateCount>;
+  /** Per property IRI (every other predicate). */
+  perProperty: Record<string, PredicateCount>;
+  timings: { copyFactsMs: number; copyTermsMs: number; indexMs: number };
+}
+
+/** Escapes a value for COPY's text format (PostgreSQL docs, COPY, "Text Format": backslash, newline, CR, tab). */
+function copyText(value: string): string {
+  return /[\\\n\r\t]/.test(value) ? value.replace(/[\\\n\r\t]/g, (c) => (c === '\\' ? '\\\\' : c === '\n' ? '\\n' : c === '\r' ? '\\r' : '\\t')) : value;
+}
+
+const FLUSH_CHARS = 1 << 18;
+
+/**
+ * A FactSink that streams facts into a new version's tables inside one open transaction.
+ * open() → write()… → finish() (dictionary, indexes) → commit(final) (runs `final` in the same transaction, then COMMIT); or abort().
+ */
+export class FactLoader {
+  private readonly ids = new Map<string, number>();
+  private buffer = '';
+  private stream: NodeJS.WritableStream | null = null;
+  private streamDone: Promise<void> | null = null;
+  private streamError: Error | null = null;
+  private facts = 0;
+  private asserted = 0;
+  private readonly perClass: Record<string, PredicateCount> = {};
+  private readonly perProperty: Record<string, PredicateCount> = {};
+  private startedAt = Date.now();
+  private closed = false;
+
+  private constructor(private readonly client: pg.PoolClient, readonly storeKey: number) {}
+
+  /** Takes a connection, drops leftovers of an earlier attempt, opens the transaction and the COPY for facts. */
+  static async open(pool: pg.Pool, storeKey: number): Promise<FactLoader> {
+    const client = await pool.connect();
+    const loader = new FactLoader(client, storeKey);
+    try {
+      await client.query('BEGIN');
+      await client.query(`SET LOCAL maintenance_work_mem = '256MB'`);
+      await client.query(`DROP TABLE IF EXISTS ${factsTable(storeKey)}, ${termsTable(storeKey)}`);
+      await client.query(`CREATE TABLE ${factsTable(storeKey)} (s integer NOT NULL, p integer NOT NULL, o integer NOT NULL, asserted boolean NOT NULL)`);
+      await client.query(`CREATE TABLE ${termsTable(storeKey)} (id integer NOT NULL, term text NOT NULL)`);
+      loader.startCopy(`COPY ${factsTable(storeKey)} (s, p, o, asserted) FROM STDIN WITH (FORMAT text, FREEZE true)`);
+      return loader;
+    } catch (error) {
+      await loader.abort();
+      throw error;
+    }
+  }
+
+  private startCopy(sql: string): void {
+    const stream = this.client.query(copyStreams.from(sql));
+    this.stream = stream;
+    this.streamError = null;
+    this.streamDone = new Promise<void>((resolve, reject) => {
+      stream.on('finish', () => resolve());
+      stream.on('error', (error: Error) => {
+        this.streamError = error;
+        reject(error);
+      });
+    });
+    this.streamDone.catch(() => undefined);
+  }
+
+  private id(term: string): number {
+    let id = this.ids.get(term);
+    if (id === undefined) {
+      id = this.ids.size + 1;
+      this.ids.set(term, id);
+    }
+    return id;
+  }
+
+  /** FactSink.write: returns a promise only when PostgreSQL is behind (stream back-pressure). */
+  write(subject: string, predicate: string, object: string, asserted: boolean): void | Promise<void> {
+    if (this.streamError) throw this.streamError;
+    const s = this.id(subject), p = this.id(predicate), o = this.id(object);
+    this.buffer += `${s}\t${p}\t${o}\t${asserted ? 't' : 'f'}\n`;
+    this.facts++;
+    if (asserted) this.asserted++;
+    const bucket = predicate === RDF_TYPE ? (this.perClass[object] ??= { asserted: 0, entailed: 0 }) : (this.perProperty[predicate] ??= { asserted: 0, entailed: 0 });
+    bucket.entailed++;
+    if (asserted) bucket.asserted++;
+    if (this.buffer.length >= FLUSH_CHARS) return this.flush();
+  }
+
+  private flush(): void | Promise<void> {
+    const chunk = this.buffer;
+    this.buffer = '';
+    if (!chunk) return;
+    if (!this.stream!.write(chunk)) {
+      return new Promise<void>((resolve, reject) => {
+        this.stream!.once('drain', resolve);
+        this.streamDone!.catch(reject);
+      });
+    }
+  }
+
+  private async endCopy(): Promise<void> {
+    await this.flush();
+    this.stream!.end();
+    await this.streamDone;
+    this.stream = null;
+  }
+
+  /** Ends the facts COPY, writes the dictionary, builds the indexes and statistics. The transaction stays open. */
+  async finish(onStep?: (step: 'terms' | 'indexes', fraction: number) => void): Promise<LoadStats> {
+    await this.endCopy();
+    const copyFactsMs = Date.now() - this.startedAt;
+    let t = Date.now();
+    onStep?.('terms', 0);
+    this.startCopy(`COPY ${termsTable(this.storeKey)} (id, term) FROM STDIN WITH (FORMAT text, FREEZE true)`);
+    for (const [term, id] of this.ids) {
+      this.buffer += `${id}\t${copyText(term)}\n`;
+      if (this.buffer.length >= FLUSH_CHARS) await this.flush();
+    }
+    await this.endCopy();
+    const copyTermsMs = Date.now() - t;
+    t = Date.now();
+    const k = this.storeKey, facts = factsTable(k), terms = termsTable(k);
+    const steps = [
+      `ALTER TABLE ${terms} ADD CONSTRAINT ${terms}_pkey PRIMARY KEY (id)`,
+      `CREATE INDEX ${terms}_term ON ${terms} USING hash (term)`,
+      `CREATE INDEX ${facts}_spo ON ${facts} (s, p, o) INCLUDE (asserted)`,
+      `CREATE INDEX ${facts}_pos ON ${facts} (p, o, s) INCLUDE (asserted)`,
+      `CREATE INDEX ${facts}_osp ON ${facts} (o, s, p) INCLUDE (asserted)`,
+      `ANALYZE ${facts}`,
+      `ANALYZE ${terms}`,
+    ];
+    for (const [i, sql] of steps.entries()) {
+      onStep?.('indexes', i / steps.length);
+      await this.client.query(sql);
+    }
+    return {
+      facts: this.facts,
+      asserted: this.asserted,
+      terms: this.ids.size,
+      perClass: this.perClass,
+      perProperty: this.perProperty,
+      timings: { copyFactsMs, copyTermsMs, indexMs: Date.now() - t },
+    };
+  }
+
+  /** Runs `final` (e.g. the status flip) in the load transaction and commits: tables and status become visible together. */
+  async commit(final: (client: pg.PoolClient) => Promise<void>): Promise<void> {
+    try {
+      await final(this.client);
+      await this.client.query('COMMIT');
+    } catch (error) {
+      await this.abort();
+      throw error;
+    }
+    this.release();
+  }
+
+  /** Rolls the load back (nothing of it stays) and returns the connection. Safe to call twice. */
+  async abort(): Promise<void> {
+    if (this.closed) return;
+    try {
+      if (this.stream) {
+        // An open COPY must be ended before ROLLBACK is accepted on the connection; destroying it is the quickest way.
+        this.release(new Error('load aborted'));
+        return;
+      }
+      await this.client.query('ROLLBACK');
+    } catch {
+      this.release(new Error('rollback failed'));
+      return;
+    }
+    this.release();
+  }
+
+  private release(error?: Error): void {
+    if (this.closed) return;
+    this.closed = true;
+    this.ids.clear();
+    // Releasing with an error destroys the connection, which makes PostgreSQL roll the transaction back.
+    this.client.release(error);
+  }
+}
