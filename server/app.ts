@@ -3,6 +3,7 @@ import express from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
+import cookieParser from 'cookie-parser';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { AppContext } from './context.js';
@@ -10,6 +11,7 @@ import { setupPassport } from './auth/passport.js';
 import { createCsrf } from './http/csrf.js';
 import { errorHandler, HttpError, notFoundHandler } from './http/errors.js';
 import { mountEarlyRoutes, mountRoutes } from './routes/index.js';
+import { methodNotAllowed } from './http/methods.js';
 
 export function createApp(ctx: AppContext): express.Express {
   const app = express();
@@ -36,6 +38,8 @@ export function createApp(ctx: AppContext): express.Express {
 
   app.use(express.json({ limit: '1mb' }));
   app.use(express.urlencoded({ extended: false, limit: '1mb' }));
+  // csrf-csrf reads its double-submit cookie from req.cookies.
+  app.use(cookieParser());
 
   const PgStore = connectPgSimple(session);
   app.use(
@@ -59,6 +63,7 @@ export function createApp(ctx: AppContext): express.Express {
 
   mountRoutes(app, ctx);
 
+  app.use('/api', methodNotAllowed(app));
   app.use('/api', notFoundHandler);
   serveClient(app, ctx);
   app.use(notFoundHandler);

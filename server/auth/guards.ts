@@ -12,6 +12,10 @@ declare global {
       name: string;
       roles: Role[];
       emailVerified: boolean;
+      /** Can sign in with a password (Google-only accounts cannot until they set one by reset). */
+      hasPassword: boolean;
+      /** Linked to a Google account. */
+      google: boolean;
     }
   }
 }

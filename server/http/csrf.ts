@@ -20,6 +20,10 @@ export function createCsrf(config: Config): { protect: RequestHandler; issue: Re
   };
   /** GET /api/csrf → { token }: the client sends it back in the X-CSRF-Token header on every write. */
   const issue: RequestHandler = (req, res) => {
+    // The token is bound to the session id; an anonymous session is only kept (and its cookie sent) once it holds
+    // something, so mark it, or the next request would get a new id and the token would never match.
+    const session = req.session as typeof req.session & { csrfIssuedAt?: number };
+    if (session && !req.user) session.csrfIssuedAt ??= Date.now();
     res.json({ token: generateCsrfToken(req, res, { overwrite: false }) });
   };
   return { protect, issue };

@@ -1,6 +1,9 @@
 // Mounts every feature router. Each feature adds its own lines; keep this file a table of contents.
 import type { Express } from 'express';
 import type { AppContext } from '../context.js';
+import { authRouter } from './auth.js';
+import { accountRouter } from './account.js';
+import { adminRouter } from './admin.js';
 
 /** Routes that must see the raw body (signed webhooks): mounted before the JSON parser. */
 export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
@@ -10,6 +13,7 @@ export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
 
 /** Cookie-authenticated and public routes under /api, plus the key-authenticated /api/v1. */
 export function mountRoutes(app: Express, ctx: AppContext): void {
-  void app;
-  void ctx;
+  app.use('/api/auth', authRouter(ctx));
+  app.use('/api/account', accountRouter(ctx));
+  app.use('/api/admin', adminRouter(ctx));
 }
