@@ -47,6 +47,13 @@ export type NormalAssertion =
  */
 export const FRESH_PREFIX = '\u0001fresh:';
 
+/**
+ * The fresh name that stands for ⊤ where a normal-form shape needs a class name on the left
+ * (e.g. a range ⊤ ⊑ ∀R.C becomes FRESH_TOP ⊑ ∀R.C). The normaliser emits it with exactly one defining
+ * axiom, `{ kind: 'subsumption', body: [], head: [FRESH_TOP] }`, so every element belongs to it.
+ */
+export const FRESH_TOP = FRESH_PREFIX + 'top';
+
 /** Returns true for internal fresh names, which are never shown as user vocabulary nor output as facts. */
 export function isFreshName(name: string): boolean {
   return name.startsWith(FRESH_PREFIX);
@@ -61,4 +68,9 @@ export interface NormalOntology {
   readonly properties: readonly string[];
   /** ABox assertions written in the ontology file itself, normalised (complex class assertions become fresh names). */
   readonly assertions: readonly NormalAssertion[];
+  /**
+   * Data-property assertions written in the ontology file: kept as facts, not reasoned with (no datatype
+   * reasoning). `literal` is the N-Triples encoding of the value (see model/dictionary.ts).
+   */
+  readonly dataAssertions?: readonly { readonly subject: string; readonly property: string; readonly literal: string; readonly source: SourceRef }[];
 }
