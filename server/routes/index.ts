@@ -4,6 +4,8 @@ import type { AppContext } from '../context.js';
 import { authRouter } from './auth.js';
 import { accountRouter } from './account.js';
 import { adminRouter } from './admin.js';
+import { listingsRouter } from './listings.js';
+import { publisherRouter } from './publisher.js';
 
 /** Routes that must see the raw body (signed webhooks): mounted before the JSON parser. */
 export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
@@ -16,4 +18,6 @@ export function mountRoutes(app: Express, ctx: AppContext): void {
   app.use('/api/auth', authRouter(ctx));
   app.use('/api/account', accountRouter(ctx));
   app.use('/api/admin', adminRouter(ctx));
+  app.use('/api/listings', listingsRouter(ctx));
+  app.use('/api/publisher', publisherRouter(ctx));
 }
