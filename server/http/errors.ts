@@ -28,7 +28,8 @@ export const notFound = (message = 'Not found.') => new HttpError(404, message);
 export const conflict = (message: string, fields?: FieldErrors) => new HttpError(409, message, 'conflict', fields);
 
 export const notFoundHandler: RequestHandler = (req, _res, next) => {
-  next(new HttpError(404, `No route ${req.method} ${req.path}.`));
+  // baseUrl + path: mounted at /api, req.path alone would drop the prefix from the message.
+  next(new HttpError(404, `No route ${req.method} ${req.baseUrl}${req.path}.`));
 };
 
 /** The one error handler: answers `{ error: { code, message, fields? } }` with the right status. */

@@ -1,0 +1,63 @@
+// Sessions live in PostgreSQL (connect-pg-simple), so a signed-in browser stays signed in across a server restart:
+// two app instances with separate contexts (pools, stores) on the same database, as before and after a restart.
+import { describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { createTestApp, createTestUser, guestAgent } from '../support/app.js';
+
+const cookieOf = (headers: Record<string, unknown>, name: string): string | undefined =>
+  ([] as string[]).concat((headers['set-cookie'] as string[] | undefined) ?? []).find((c) => c.startsWith(`${name}=`))?.split(';')[0];
+
+describe('session across a restart', () => {
+  it('keeps the user signed in and the CSRF token valid on a new app instance', async () => {
+    const before = await createTestApp();
+    const user = await createTestUser(before.ctx, { roles: ['admin'] });
+    const agent = await guestAgent(before.app);
+    const signIn = await agent.signIn(user.email, user.password);
+    expect(signIn.status).toBe(200);
+    const sid = cookieOf(signIn.headers, 'thence.sid');
+    expect(sid).toBeDefined();
+    const csrfRes = await request(before.app).get('/api/csrf').set('Cookie', sid!);
+    const csrfCookie = cookieOf(csrfRes.headers, 'thence.csrf');
+    const token = csrfRes.body.token as string;
+    // Cookie flags: HttpOnly and SameSite on the session cookie (Secure too when served over HTTPS).
+    const raw = ([] as string[]).concat(signIn.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('thence.sid='))!;
+    expect(raw).toMatch(/HttpOnly/);
+    expect(raw).toMatch(/SameSite=Lax/);
+    await before.close();
+
+    const after = await createTestApp();
+    try {
+      const me = await request(after.app).get('/api/auth/me').set('Cookie', sid!);
+      expect(me.body.user).toMatchObject({ id: user.id, email: user.email, roles: ['admin'] });
+      expect((await request(after.app).get('/api/admin/users').set('Cookie', sid!)).status).toBe(200);
+      // A write with the token issued before the restart is still accepted.
+      const rename = await request(after.app)
+        .patch('/api/account')
+        .set('Cookie', [sid!, csrfCookie!].join('; '))
+        .set('X-CSRF-Token', token)
+        .send({ name: 'Still Here' });
+      expect(rename.status).toBe(200);
+      expect(rename.body.user.name).toBe('Still Here');
+      // Without the cookie, nobody is signed in.
+      expect((await request(after.app).get('/api/auth/me')).body.user).toBeNull();
+    } finally {
+      await after.close();
+    }
+  });
+
+  it('ends the session on sign-out, on every instance', async () => {
+    const first = await createTestApp();
+    const second = await createTestApp();
+    try {
+      const user = await createTestUser(first.ctx);
+      const agent = await guestAgent(first.app);
+      const sid = cookieOf((await agent.signIn(user.email, user.password)).headers, 'thence.sid')!;
+      expect((await request(second.app).get('/api/auth/me').set('Cookie', sid)).body.user.id).toBe(user.id);
+      await agent.signOut();
+      expect((await request(second.app).get('/api/auth/me').set('Cookie', sid)).body.user).toBeNull();
+    } finally {
+      await first.close();
+      await second.close();
+    }
+  });
+});
