@@ -130,7 +130,8 @@ export function publisherRouter(ctx: AppContext): Router {
     const row = await getOwnedVersion(ctx, actorOf(req), param(req, 'id'));
     const file = (await listFiles(ctx.pool, row.id)).find((f) => f.id === param(req, 'fileId'));
     if (!file || !fs.existsSync(file.storedPath)) throw new HttpError(404, 'No such file in this version.');
-    res.download(file.storedPath, file.originalName);
+    // The upload folder sits under .data/, which send() would otherwise treat as a hidden path.
+    res.download(file.storedPath, file.originalName, { dotfiles: 'allow' });
   }));
 
   router.post('/versions/:id/cancel', wrap(async (req, res) => {
