@@ -63,6 +63,16 @@ export function changePassword(currentPassword: string, newPassword: string): Pr
   return api.post<void>('/api/account/password', { currentPassword, newPassword });
 }
 
+/** Which sign-in methods this server offers (Google only when its client id is configured). */
+export interface SignInProviders {
+  password: boolean;
+  google: boolean;
+}
+
+export function fetchProviders(): Promise<SignInProviders> {
+  return api.get<SignInProviders>('/api/auth/providers');
+}
+
 /**
  * Where the Google button points. It is a full-page navigation, not a fetch: the OAuth 2.0 flow
  * needs the browser to visit the provider and come back with the session cookie.
