@@ -236,3 +236,31 @@ export function multerErrorToHttp(error: unknown): unknown {
       return new HttpError(400, `The upload could not be read: ${error.message}.`, 'bad_upload');
   }
 }
+
+/** Stores a file from the local disk as an upload (seed, benchmarks): same checks, hash and layout as a browser upload. */
+export async function storeLocalFile(ctx: AppContext, target: { listingId: string; versionId: string; position: number }, role: UploadRole, sourcePath: string, originalName = path.basename(sourcePath)): Promise<StoredUpload> {
+  const head = Buffer.alloc(SNIFF_BYTES);
+  const fd = await fs.promises.open(sourcePath, 'r');
+  const { bytesRead } = await fd.read(head, 0, SNIFF_BYTES, 0);
+  await fd.close();
+  const format = sniffFormat(role, originalName, head.subarray(0, bytesRead));
+  const dir = versionDir(ctx, target.listingId, target.versionId);
+  await fs.promises.mkdir(dir, { recursive: true });
+  const position = target.position++;
+  const storedPath = path.join(dir, `${String(position).padStart(2, '0')}-${role}-${randomUUID().slice(0, 8)}.${extensionOf(originalName) || 'bin'}`);
+  const hash = createHash('sha256');
+  let size = 0;
+  await new Promise<void>((resolve, reject) => {
+    const input = fs.createReadStream(sourcePath);
+    const output = fs.createWriteStream(storedPath, { flags: 'wx' });
+    input.on('data', (chunk) => {
+      hash.update(chunk as Buffer);
+      size += (chunk as Buffer).length;
+    });
+    input.on('error', reject);
+    output.on('error', reject);
+    output.on('finish', () => resolve());
+    input.pipe(output);
+  });
+  return { role, originalName, storedPath, format, sizeBytes: size, sha256: hash.digest('hex'), csvHeader: format === 'csv' ? csvHeader(head.subarray(0, bytesRead)) : undefined };
+}

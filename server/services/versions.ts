@@ -126,7 +126,15 @@ export function checkUploadSet(files: StoredUpload[], fields: UploadRequestField
 }
 
 /** Records a new version with its files and queues it. The version id was chosen before the files were written. */
-export async function createVersion(ctx: AppContext, listingId: string, versionId: string, files: StoredUpload[], fields: UploadRequestFields, note = 'uploaded'): Promise<VersionSummary> {
+export async function createVersion(
+  ctx: AppContext,
+  listingId: string,
+  versionId: string,
+  files: StoredUpload[],
+  fields: UploadRequestFields,
+  options: { note?: string; enqueue?: boolean } = {},
+): Promise<VersionSummary> {
+  const note = options.note ?? 'uploaded';
   const mappings = checkUploadSet(files, fields);
   const client = await ctx.pool.connect();
   try {
@@ -150,7 +158,8 @@ export async function createVersion(ctx: AppContext, listingId: string, versionI
   } finally {
     client.release();
   }
-  await enqueueProcessing(ctx, versionId);
+  // The seed processes synchronously (same service, no queue); everything else goes through the queue.
+  if (options.enqueue !== false) await enqueueProcessing(ctx, versionId);
   return toVersionSummary((await loadVersion(ctx.pool, versionId))!);
 }
 
@@ -168,7 +177,7 @@ export async function rerunVersion(ctx: AppContext, row: VersionRow, mode: 'stri
       copies.push({ role: file.role, originalName: file.originalName, storedPath, format: file.format as StoredUpload['format'], sizeBytes: file.sizeBytes, sha256: file.sha256, csvHeader: undefined });
     }
     const csvMappings = Object.fromEntries(files.filter((f) => f.csvMapping).map((f) => [f.originalName, f.csvMapping]));
-    return await createVersion(ctx, row.listing_id, versionId, copies, { mode, csvMappings }, `created from version ${row.number}`);
+    return await createVersion(ctx, row.listing_id, versionId, copies, { mode, csvMappings }, { note: `created from version ${row.number}` });
   } catch (error) {
     await fs.promises.rm(dir, { recursive: true, force: true });
     throw error;
