@@ -28,6 +28,8 @@ interface Options {
 }
 
 export interface MailCatcher {
+  smtpPort: number;
+  viewerUrl: string;
   close(): Promise<void>;
 }
 
@@ -103,8 +105,12 @@ export async function startMailCatcher(options: Options = {}): Promise<MailCatch
     viewer.once('error', reject);
     viewer.listen(viewerPort, host, () => resolve());
   });
-  console.log(`mail catcher: SMTP on ${host}:${smtpPort}, inbox on http://${host}:${viewerPort}`);
+  const boundSmtp = (smtp.server.address() as { port: number }).port;
+  const viewerUrl = `http://${host}:${(viewer.address() as { port: number }).port}`;
+  console.log(`mail catcher: SMTP on ${host}:${boundSmtp}, inbox on ${viewerUrl}`);
   return {
+    smtpPort: boundSmtp,
+    viewerUrl,
     close: async () => {
       await Promise.all([new Promise<void>((resolve) => smtp.close(() => resolve())), new Promise<void>((resolve) => viewer.close(() => resolve()))]);
     },
