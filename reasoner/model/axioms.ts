@@ -134,6 +134,8 @@ export interface Ontology {
   readonly axioms: readonly Axiom[];
   /** Prefix name (with colon, e.g. `ex:`) → IRI, as declared (for printing). */
   readonly prefixes: Readonly<Record<string, string>>;
+  /** Things read but not turned into axioms (e.g. RDF triples that belong to no axiom, skipped rule syntax). */
+  readonly warnings?: readonly string[];
 }
 
 /** Distributes Omit over a union, so `AxiomInit` keeps each kind's own fields. */
