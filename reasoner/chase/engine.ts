@@ -1,0 +1,353 @@
+// The chase on one fact store: semi-naive saturation of the non-generating rules (Datalog-first), equality by
+// representatives with fact rewriting, the restricted chase for existential rules with pairwise anywhere blocking
+// (Motik, Shearer, Horrocks, JAIR 2009, §4 "blocking"), and recording of the disjunctions to branch on.
+
+import { BINARY, EQUAL, UNARY, type CompiledAtom, type CompiledProgram, type CompiledRule, type JoinStep } from './program.js';
+import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
+import { mix2 } from './hash.js';
+import type { Guard } from './guard.js';
+
+/** What closed a branch: the rule whose body matched (constraint, or an equality against ≉) and the matched elements. */
+export interface Clash {
+  readonly rule: number;
+  readonly env: readonly number[];
+}
+
+export interface ChaseMark {
+  readonly store: StoreMark;
+  readonly triggers: number;
+  readonly pending: number;
+  readonly pendingCursor: number;
+}
+
+/** Rule instances waiting: (rule, env offset) pairs over one env pool. */
+class InstanceList {
+  rules: number[] = [];
+  offsets: number[] = [];
+  pool: number[] = [];
+  get length(): number { return this.rules.length; }
+  push(rule: number, env: Int32Array, n: number): void {
+    this.rules.push(rule); this.offsets.push(this.pool.length);
+    for (let i = 0; i < n; i++) this.pool.push(env[i]!);
+  }
+  truncate(n: number): void {
+    if (n >= this.rules.length) return;
+    this.pool.length = this.offsets[n]!; this.rules.length = n; this.offsets.length = n;
+  }
+}
+
+export class Chase {
+  readonly store: FactStore;
+  clash: Clash | null = null;
+  private deltaUnary = 0;
+  private deltaBinary = 0;
+  readonly triggers = new InstanceList();
+  readonly pending = new InstanceList();
+  /** Every pending disjunction before this index holds in the current branch. */
+  pendingCursor = 0;
+  private readonly env: Int32Array;
+  private readonly out: number[] = [];
+  private readonly maxVars: number;
+
+  constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
+    this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
+    this.maxVars = Math.max(1, ...program.rules.map((r) => r.vars));
+    this.env = new Int32Array(this.maxVars);
+  }
+
+  mark(): ChaseMark {
+    return { store: this.store.mark(), triggers: this.triggers.length, pending: this.pending.length, pendingCursor: this.pendingCursor };
+  }
+
+  undo(m: ChaseMark): void {
+    this.store.undo(m.store);
+    this.triggers.truncate(m.triggers); this.pending.truncate(m.pending); this.pendingCursor = m.pendingCursor;
+    this.deltaUnary = Math.min(this.deltaUnary, this.store.unaryCount);
+    this.deltaBinary = Math.min(this.deltaBinary, this.store.binaryCount);
+    this.clash = null;
+  }
+
+  /** Adds ≉ in both directions (the relation is symmetric; storing both keeps joins one-directional). */
+  addDistinct(a: number, b: number, rule: number): void {
+    this.store.addBinary(DISTINCT_ID, a, b, rule); this.store.addBinary(DISTINCT_ID, b, a, rule);
+  }
+
+  /**
+   * Merges the elements of a ≈ b (Motik et al. 2009, ≈-rule): into a named element if either is named, else into the
+   * older; the merged-away element's facts are rewritten onto the representative, and if it was anonymous its
+   * descendants are pruned (which keeps the forest shape and termination). Returns false on a clash with ≉.
+   */
+  merge(a: number, b: number, rule: number, env: readonly number[]): boolean {
+    const st = this.store;
+    a = st.find(a); b = st.find(b);
+    if (a < 0 || b < 0 || a === b) return true;
+    const to = Math.min(a, b), from = Math.max(a, b); // named ids come first, and older anonymous ids are smaller
+    st.setRep(from, to);
+    if (from >= st.named) this.prune(from);
+    for (let r = st.firstUnaryAbout(from); r >= 0; r = st.nextUnaryByElem(r)) st.addUnary(st.unaryPred[r]!, to, st.unaryRule[r]!);
+    for (let r = st.firstBinaryWithSubject(from); r >= 0; r = st.nextBinaryWithSubject(r)) {
+      const o = st.find(st.binaryObj[r]!);
+      if (o >= 0) st.addBinary(st.binaryPred[r]!, to, o, st.binaryRule[r]!);
+    }
+    for (let r = st.firstBinaryWithObject(from); r >= 0; r = st.nextBinaryWithObject(r)) {
+      const s = st.find(st.binarySubj[r]!);
+      if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!);
+    }
+    if (st.hasBinary(DISTINCT_ID, to, to)) { this.clash = { rule, env: [...env] }; return false; }
+    return true;
+  }
+
+  private prune(e: number): void {
+    const st = this.store;
+    for (let c = st.firstChild[e]!; c >= 0; c = st.nextSibling[c]!) {
+      if (st.rep[c] === c) { st.setRep(c, -1); this.prune(c); }
+    }
+  }
+
+  /** Runs the non-generating rules to a fixpoint over the rows added since the last call. Returns false on a clash. */
+  saturate(): boolean {
+    const st = this.store, prog = this.program;
+    while (this.deltaUnary < st.unaryCount || this.deltaBinary < st.binaryCount) {
+      this.guard.check(st);
+      const u0 = this.deltaUnary, u1 = st.unaryCount, b0 = this.deltaBinary, b1 = st.binaryCount;
+      this.out.length = 0;
+      for (let row = u0; row < u1; row++) {
+        if (!st.unaryValid(row)) continue;
+        const readers = prog.readersOfUnary[st.unaryPred[row]!]!;
+        for (let k = 0; k < readers.length; k++) this.fromDelta(prog.rules[readers[k]![0]]!, readers[k]![1], row, u0, b0);
+      }
+      for (let row = b0; row < b1; row++) {
+        if (!st.binaryValid(row)) continue;
+        const readers = prog.readersOfBinary[st.binaryPred[row]!]!;
+        for (let k = 0; k < readers.length; k++) this.fromDelta(prog.rules[readers[k]![0]]!, readers[k]![1], row, u0, b0);
+      }
+      this.deltaUnary = u1; this.deltaBinary = b1;
+      if (!this.applyAll()) return false;
+    }
+    return true;
+  }
+
+  /** Matches the rule with body atom `i` bound to the delta row, atoms before i to old rows, atoms after i to any. */
+  private fromDelta(rule: CompiledRule, i: number, row: number, oldUnary: number, oldBinary: number): void {
+    const st = this.store, env = this.env, atom = rule.body[i]!;
+    if (atom.kind === UNARY) env[atom.a] = st.unaryElem[row]!;
+    else {
+      const s = st.binarySubj[row]!, o = st.binaryObj[row]!;
+      if (atom.a === atom.b && s !== o) return;
+      env[atom.a] = s; env[atom.b] = o;
+    }
+    const plan = rule.plans[i]!;
+    this.join(plan, 1, i, oldUnary, oldBinary, () => {
+      this.out.push(rule.id);
+      for (let v = 0; v < rule.bodyVars; v++) this.out.push(env[v]!);
+      return false;
+    });
+  }
+
+  /**
+   * Enumerates matches of plan[k..] extending env; `onMatch` returns true to stop. Atoms of the body before the delta
+   * atom `deltaIndex` only read rows older than the delta (semi-naive: each match is found once).
+   */
+  join(plan: readonly JoinStep[], k: number, deltaIndex: number, oldUnary: number, oldBinary: number, onMatch: () => boolean, bound = -1): boolean {
+    if (k === plan.length) return onMatch();
+    const st = this.store, env = this.env, step = plan[k]!, a = step.atom;
+    const old = step.bodyIndex >= 0 && step.bodyIndex < deltaIndex;
+    const limitU = old ? oldUnary : 0x7fffffff, limitB = old ? oldBinary : 0x7fffffff;
+    if (a.kind === UNARY) {
+      if (this.bound(plan, k, a.a, bound)) {
+        const r = st.unaryRow(a.pred, env[a.a]!);
+        return r >= 0 && r < limitU && this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound);
+      }
+      for (let r = st.firstUnaryOf(a.pred); r >= 0; r = st.nextUnaryByPred(r)) {
+        if (r >= limitU || !st.unaryValid(r)) continue;
+        env[a.a] = st.unaryElem[r]!;
+        if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
+      }
+      return false;
+    }
+    const ba = this.bound(plan, k, a.a, bound), bb = this.bound(plan, k, a.b, bound);
+    if (ba && bb) {
+      const r = st.binaryRow(a.pred, env[a.a]!, env[a.b]!);
+      return r >= 0 && r < limitB && this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound);
+    }
+    if (ba) {
+      for (let r = st.firstBinaryFrom(a.pred, env[a.a]!); r >= 0; r = st.nextBinaryFrom(r)) {
+        if (r >= limitB || !st.binaryValid(r)) continue;
+        const o = st.binaryObj[r]!;
+        if (a.a === a.b && o !== env[a.a]) continue;
+        env[a.b] = o;
+        if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
+      }
+      return false;
+    }
+    if (bb) {
+      for (let r = st.firstBinaryTo(a.pred, env[a.b]!); r >= 0; r = st.nextBinaryTo(r)) {
+        if (r >= limitB || !st.binaryValid(r)) continue;
+        env[a.a] = st.binarySubj[r]!;
+        if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
+      }
+      return false;
+    }
+    for (let r = st.firstBinaryOf(a.pred); r >= 0; r = st.nextBinaryByPred(r)) {
+      if (r >= limitB || !st.binaryValid(r)) continue;
+      const s = st.binarySubj[r]!, o = st.binaryObj[r]!;
+      if (a.a === a.b && s !== o) continue;
+      env[a.a] = s; env[a.b] = o;
+      if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
+    }
+    return false;
+  }
+
+  /** A variable is bound if it is below `bound` (test plans: the body variables) or occurs in an earlier step. */
+  private bound(plan: readonly JoinStep[], k: number, v: number, bound: number): boolean {
+    if (v < bound) return true;
+    for (let j = 0; j < k; j++) { const a = plan[j]!.atom; if (a.a === v || (a.kind !== UNARY && a.b === v)) return true; }
+    return false;
+  }
+
+  /** Applies the buffered matches: Datalog heads and equalities now, disjunctions and existentials are recorded. */
+  private applyAll(): boolean {
+    const st = this.store, prog = this.program, out = this.out, env = this.env;
+    let i = 0;
+    while (i < out.length) {
+      const rule = prog.rules[out[i]!]!;
+      let dead = false;
+      for (let v = 0; v < rule.bodyVars; v++) { const e = st.find(out[i + 1 + v]!); if (e < 0) dead = true; env[v] = e; }
+      i += 1 + rule.bodyVars;
+      if (dead) continue;
+      switch (rule.shape) {
+        case 'datalog':
+          for (const a of rule.head[0]!.atoms) this.addAtom(a, rule.id);
+          break;
+        case 'constraint':
+          this.clash = { rule: rule.id, env: Array.from(env.subarray(0, rule.bodyVars)) };
+          return false;
+        case 'equality':
+          for (const a of rule.head[0]!.atoms) {
+            if (!this.merge(env[a.a]!, env[a.b]!, rule.id, Array.from(env.subarray(0, rule.bodyVars)))) return false;
+            for (let v = 0; v < rule.bodyVars; v++) env[v] = st.find(env[v]!);
+          }
+          break;
+        case 'disjunctive':
+          if (!this.holds(rule)) this.pending.push(rule.id, env, rule.bodyVars);
+          break;
+        case 'existential':
+          if (!this.holds(rule)) this.triggers.push(rule.id, env, rule.bodyVars);
+          break;
+      }
+    }
+    return true;
+  }
+
+  /** Adds a head atom under the current env (elements through `find`). */
+  addAtom(a: CompiledAtom, rule: number): void {
+    const st = this.store, env = this.env;
+    if (a.kind === UNARY) { const e = st.find(env[a.a]!); if (e >= 0) st.addUnary(a.pred, e, rule); return; }
+    const s = st.find(env[a.a]!), o = st.find(env[a.b]!);
+    if (s < 0 || o < 0) return;
+    if (a.pred === DISTINCT_ID) this.addDistinct(s, o, rule); else st.addBinary(a.pred, s, o, rule);
+  }
+
+  /** Returns true if some head disjunct of the rule already holds for the body match in env (restricted chase test). */
+  holds(rule: CompiledRule): boolean {
+    const st = this.store, env = this.env;
+    for (const d of rule.head) {
+      let eqOk = true;
+      for (const a of d.atoms) if (a.kind === EQUAL && st.find(env[a.a]!) !== st.find(env[a.b]!)) { eqOk = false; break; }
+      if (!eqOk) continue;
+      if (d.test.length === 0 || this.join(d.test, 0, -1, 0, 0, () => true, rule.bodyVars)) return true;
+    }
+    return false;
+  }
+
+  /** Loads instance `i` of a list into env (elements through find); returns false if an element was pruned. */
+  loadInstance(list: InstanceList, i: number): CompiledRule | null {
+    const rule = this.program.rules[list.rules[i]!]!, off = list.offsets[i]!;
+    for (let v = 0; v < rule.bodyVars; v++) { const e = this.store.find(list.pool[off + v]!); if (e < 0) return null; this.env[v] = e; }
+    return rule;
+  }
+
+  /** Applies head disjunct `d` of the rule loaded in env. Returns false on a clash. */
+  applyDisjunct(rule: CompiledRule, d: number): boolean {
+    const env = Array.from(this.env.subarray(0, rule.bodyVars));
+    for (const a of rule.head[d]!.atoms) {
+      if (a.kind === EQUAL) { if (!this.merge(this.env[a.a]!, this.env[a.b]!, rule.id, env)) return false; }
+      else this.addAtom(a, rule.id);
+    }
+    return true;
+  }
+
+  /**
+   * Pairwise anywhere blocking (Motik et al. 2009, Def. 4.2, as we read it): an anonymous element y whose parent y′ is
+   * anonymous is directly blocked by an older, not blocked z with parent z′ when L(y) = L(z), L(y′) = L(z′) and the
+   * edge labels y′→y, y→y′ equal z′→z, z→z′; descendants of a blocked element are indirectly blocked.
+   * Returns a byte per element (1 = blocked).
+   */
+  blocked(): Uint8Array {
+    const st = this.store, status = new Uint8Array(st.elementCount), seen = new Map<number, number>();
+    for (let y = st.named; y < st.elementCount; y++) {
+      if (st.rep[y] !== y) continue;
+      const p = st.parent[y]!;
+      if (p < st.named) continue;
+      if (status[p]) { status[y] = 1; continue; }
+      const key = mix2(mix2(mix2(st.labelHashA[y]!, st.labelHashB[y]!), mix2(st.labelHashA[p]!, st.labelHashB[p]!)), this.edgeHash(p, y));
+      const z = seen.get(key);
+      if (z !== undefined && this.sameLabel(y, z) && this.sameLabel(p, st.parent[z]!) && this.sameEdges(p, y, st.parent[z]!, z)) status[y] = 1;
+      else if (z === undefined) seen.set(key, y);
+    }
+    return status;
+  }
+
+  private edgeHash(p: number, y: number): number {
+    const st = this.store;
+    let h = 0;
+    for (let r = st.firstBinaryWithSubject(y); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === p && st.binaryValid(r)) h = (h + mix2(st.binaryPred[r]!, 1)) | 0;
+    for (let r = st.firstBinaryWithObject(y); r >= 0; r = st.nextBinaryWithObject(r)) if (st.binarySubj[r] === p && st.binaryValid(r)) h = (h + mix2(st.binaryPred[r]!, 2)) | 0;
+    return h;
+  }
+
+  private sameLabel(y: number, z: number): boolean {
+    const st = this.store;
+    if (st.labelSize[y] !== st.labelSize[z]) return false;
+    for (let r = st.firstUnaryAbout(y); r >= 0; r = st.nextUnaryByElem(r)) if (!st.hasUnary(st.unaryPred[r]!, z)) return false;
+    return true;
+  }
+
+  private sameEdges(p: number, y: number, q: number, z: number): boolean {
+    const st = this.store;
+    const count = (a: number, b: number) => {
+      let n = 0;
+      for (let r = st.firstBinaryWithSubject(a); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === b && st.binaryValid(r)) n++;
+      return n;
+    };
+    if (count(y, p) !== count(z, q) || count(p, y) !== count(q, z)) return false;
+    for (let r = st.firstBinaryWithSubject(y); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === p && !st.hasBinary(st.binaryPred[r]!, z, q)) return false;
+    for (let r = st.firstBinaryWithSubject(p); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === y && !st.hasBinary(st.binaryPred[r]!, q, z)) return false;
+    return true;
+  }
+
+  /**
+   * One round of the restricted chase for existential rules: every recorded trigger whose centre is not blocked and
+   * whose head does not hold yet gets new elements. Returns the number of triggers applied.
+   */
+  generate(): number {
+    const st = this.store, list = this.triggers;
+    if (list.length === 0) return 0;
+    const status = this.blocked();
+    let applied = 0;
+    const n = list.length;
+    for (let i = 0; i < n; i++) {
+      const rule = this.loadInstance(list, i);
+      if (rule === null) continue;
+      const centre = this.env[rule.center]!;
+      if (centre < status.length && status[centre]) continue;
+      if (this.holds(rule)) continue;
+      const d = rule.head[0]!;
+      for (const v of d.exists) this.env[v] = st.newElement(centre);
+      this.guard.elements(st.elementCount);
+      for (const a of d.atoms) this.addAtom(a, rule.id);
+      applied++;
+    }
+    return applied;
+  }
+}

@@ -1,0 +1,70 @@
+// The rule language: atoms over unary (class) and binary (property) predicates, rules whose head is a disjunction of
+// conjunctions with existential variables, equality ≈ and inequality ≉, and ⊥ as the empty head.
+
+import type { SourceRef } from '../model/normal.js';
+
+/** Built-in predicates. `⊤` holds for every element (so an empty class body still binds its variable). */
+export const TOP = '⊤';
+export const EQUALS = '≈';
+export const DISTINCT = '≉';
+
+/** Returns true for the built-in predicates, which are never user vocabulary. */
+export function isBuiltin(predicate: string): boolean {
+  return predicate === TOP || predicate === EQUALS || predicate === DISTINCT;
+}
+
+/** An atom: a predicate applied to variables (the rewriting of a TBox needs no constants). */
+export interface Atom {
+  readonly predicate: string;
+  readonly args: readonly string[];
+}
+
+/** One disjunct of a head: ∃ exists . atoms₁ ∧ … ∧ atomsₖ. */
+export interface HeadDisjunct {
+  readonly exists: readonly string[];
+  readonly atoms: readonly Atom[];
+}
+
+/**
+ * The shape of a rule, for statistics and for the engine's schedule (Datalog-first):
+ * datalog (one disjunct, no ∃, no ≈), equality (one disjunct of ≈ only), disjunctive (two or more disjuncts),
+ * existential (one disjunct with ∃), constraint (empty head, ⊥).
+ */
+export type RuleShape = 'datalog' | 'equality' | 'disjunctive' | 'existential' | 'constraint';
+
+/** body₁ ∧ … ∧ bodyₙ → head₁ ∨ … ∨ headₘ; an empty head is ⊥. */
+export interface Rule {
+  readonly body: readonly Atom[];
+  readonly head: readonly HeadDisjunct[];
+  /** The normal-form axiom this rule comes from (null for built-in rules). */
+  readonly source: SourceRef | null;
+}
+
+/** A rule program: rules plus the user vocabulary it is about (what may be read off as entailed facts). */
+export interface RuleProgram {
+  readonly rules: readonly Rule[];
+  /** Unary predicates of the user vocabulary (class IRIs). */
+  readonly classes: readonly string[];
+  /** Binary predicates of the user vocabulary (object property IRIs). */
+  readonly properties: readonly string[];
+  /** True when no rule has a disjunctive head or an equality disjunction (the program is Horn). */
+  readonly horn: boolean;
+}
+
+/** Returns the shape of a rule. */
+export function ruleShape(rule: Rule): RuleShape {
+  if (rule.head.length === 0) return 'constraint';
+  if (rule.head.length > 1) return 'disjunctive';
+  const only = rule.head[0]!;
+  if (only.exists.length > 0) return 'existential';
+  if (only.atoms.length > 0 && only.atoms.every((a) => a.predicate === EQUALS)) return 'equality';
+  return 'datalog';
+}
+
+/** Returns the largest arity of any atom in the rule. */
+export function ruleArity(rule: Rule): number {
+  let arity = 0;
+  for (const a of rule.body) arity = Math.max(arity, a.args.length);
+  for (const d of rule.head) for (const a of d.atoms) arity = Math.max(arity, a.args.length);
+  return arity;
+}
