@@ -1,6 +1,7 @@
 // Accounts end to end through the real SMTP catcher: sign-up → verification mail → verify → sign-in,
 // password reset, and the account page's changes. Runs against the real PostgreSQL test database.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
 import { createTestApp, guestAgent, signedInAgent, TEST_PASSWORD, uniqueEmail, type TestApp } from '../support/app.js';
 import { listMail, tokenIn, waitForMail } from '../support/mail.js';
 
@@ -122,22 +123,19 @@ describe('sign-in', () => {
   it('gives the session a new id on sign-in (no session fixation)', async () => {
     const agent = await signedInAgent(t);
     const guest = await guestAgent(t.app);
-    const before = sessionCookie(await guest.get('/api/csrf'));
-    const anonymousSid = before ?? '';
+    const anonymousSid = sessionCookie(await guest.get('/api/csrf'));
+    expect(anonymousSid).toBeDefined();
     const signIn = await guest.post('/api/auth/sign-in').send({ email: agent.user.email, password: TEST_PASSWORD });
     expect(signIn.status).toBe(200);
     const after = sessionCookie(signIn);
     expect(after).toBeDefined();
     expect(after).not.toBe(anonymousSid);
     // The old anonymous session id does not carry the sign-in.
-    if (anonymousSid) {
-      const res = await (await import('supertest')).default(t.app).get('/api/auth/me').set('Cookie', anonymousSid);
-      expect(res.body.user).toBeNull();
-    }
+    expect((await request(t.app).get('/api/auth/me').set('Cookie', anonymousSid!)).body.user).toBeNull();
+    expect((await request(t.app).get('/api/auth/me').set('Cookie', after!)).body.user.id).toBe(agent.user.id);
   });
 
   it('asks for a CSRF token on writes', async () => {
-    const { default: request } = await import('supertest');
     const res = await request(t.app).post('/api/auth/sign-in').send({ email: 'a@example.test', password: 'x' });
     expect(res.status).toBe(403);
     expect(res.body.error.code).toBe('csrf');

@@ -2,7 +2,7 @@
 // two app instances with separate contexts (pools, stores) on the same database, as before and after a restart.
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, createTestUser, guestAgent } from '../support/app.js';
+import { createTestApp, createTestUser, guestAgent, startTestServer } from '../support/app.js';
 
 const cookieOf = (headers: Record<string, unknown>, name: string): string | undefined =>
   ([] as string[]).concat((headers['set-cookie'] as string[] | undefined) ?? []).find((c) => c.startsWith(`${name}=`))?.split(';')[0];
@@ -58,6 +58,20 @@ describe('session across a restart', () => {
     } finally {
       await first.close();
       await second.close();
+    }
+  });
+});
+
+describe('test server on a loopback port', () => {
+  it('serves the API at the URL its mailed links and callbacks use', async () => {
+    const server = await startTestServer();
+    try {
+      expect(server.ctx.config.publicUrl).toBe(server.url);
+      const res = await fetch(`${server.url}/api/auth/me`);
+      expect(res.status).toBe(200);
+      expect(await res.json()).toEqual({ user: null });
+    } finally {
+      await server.close();
     }
   });
 });

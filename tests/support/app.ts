@@ -1,6 +1,8 @@
 // Test harness for API tests: a context and app on the real PostgreSQL test database, and supertest agents
 // that carry a session cookie and the CSRF token, optionally signed in as a fresh user with given roles.
 import { randomUUID } from 'node:crypto';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
 import supertest from 'supertest';
 import { createApp } from '../../server/app.js';
@@ -49,6 +51,36 @@ export async function createTestApp(overrides: ConfigOverrides = {}): Promise<Te
     close: async () => {
       closeMail(ctx);
       await closeContext(ctx);
+    },
+  };
+}
+
+export interface TestServer extends TestApp {
+  /** e.g. http://127.0.0.1:41234 — also the context's publicUrl, so mailed links and OAuth callbacks point here. */
+  url: string;
+}
+
+/**
+ * The app listening on a free loopback port (for browser journeys): the port is bound first, so the
+ * configuration's publicUrl (used in mail links and the Google callback) is the real address.
+ */
+export async function startTestServer(overrides: ConfigOverrides = {}): Promise<TestServer> {
+  const server = http.createServer();
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(0, '127.0.0.1', () => resolve());
+  });
+  const { port } = server.address() as AddressInfo;
+  const url = `http://127.0.0.1:${port}`;
+  const testApp = await createTestApp({ port, host: '127.0.0.1', publicUrl: url, cookieSecure: false, ...overrides });
+  server.on('request', testApp.app);
+  return {
+    ...testApp,
+    url,
+    close: async () => {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await testApp.close();
     },
   };
 }
