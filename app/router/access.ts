@@ -32,13 +32,21 @@ export function mayOpen(meta: RouteMeta, viewer: Viewer | null): boolean {
 }
 
 /**
- * A redirect target taken from the address bar is used only when it is a path on this site:
- * "//host" and "/\host" would leave the site (an open redirect).
+ * A redirect target taken from the address bar is used only when it stays on this site. "//host", "/\\host" and
+ * "/<tab>/host" all leave it: browsers read a backslash as a slash and drop tabs and newlines before parsing
+ * (WHATWG URL Standard, §4.4 basic URL parser). So the target is parsed the same way and must keep our origin.
  */
 export function safeRedirect(target: unknown, fallback = '/'): string {
   if (typeof target !== 'string' || !target.startsWith('/')) return fallback;
-  if (target.startsWith('//') || target.startsWith('/\\')) return fallback;
-  return target;
+  const base = 'http://thence.invalid';
+  let url: URL;
+  try {
+    url = new URL(target, base);
+  } catch {
+    return fallback;
+  }
+  if (url.origin !== base) return fallback;
+  return url.pathname + url.search + url.hash;
 }
 
 /** One entry of the shell's navigation. */
