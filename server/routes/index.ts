@@ -6,11 +6,18 @@ import { accountRouter } from './account.js';
 import { adminRouter } from './admin.js';
 import { listingsRouter } from './listings.js';
 import { publisherRouter } from './publisher.js';
+import { plansRouter } from './plans.js';
+import { subscriptionsRouter } from './subscriptions.js';
+import { keysRouter } from './keys.js';
+import { usageRouter } from './usage.js';
+import { webhooksRouter } from './webhooks.js';
+import { v1Router } from './v1.js';
 
 /** Routes that must see the raw body (signed webhooks): mounted before the JSON parser. */
 export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
-  void app;
-  void ctx;
+  app.use('/api/webhooks', webhooksRouter(ctx));
+  // The key-authenticated query API needs no session, cookie parser or CSRF: mounted early to keep its hot path short.
+  app.use('/api/v1', v1Router(ctx));
 }
 
 /** Cookie-authenticated and public routes under /api, plus the key-authenticated /api/v1. */
@@ -20,4 +27,8 @@ export function mountRoutes(app: Express, ctx: AppContext): void {
   app.use('/api/admin', adminRouter(ctx));
   app.use('/api/listings', listingsRouter(ctx));
   app.use('/api/publisher', publisherRouter(ctx));
+  app.use('/api/market/subscriptions', subscriptionsRouter(ctx));
+  app.use('/api/market/keys', keysRouter(ctx));
+  app.use('/api/market/usage', usageRouter(ctx));
+  app.use('/api/market', plansRouter(ctx));
 }
