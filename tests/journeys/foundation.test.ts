@@ -111,6 +111,16 @@ describe('journey: sign-up, verification mail, sign-out, sign-in', () => {
     await expect.poll(() => page.getByText('confirmed', { exact: true }).isVisible()).toBe(true);
     await expect.poll(() => page.locator('.role-tags').first().textContent()).toMatch(/Publisher.*Subscriber/);
     await shot('account-page');
+
+    // Account edits are cookie-authenticated writes (CSRF token sent by the client) that show their answers in place.
+    await page.locator('input[name="name"]').fill('Journey Tester Renamed');
+    await page.getByRole('button', { name: 'Save name' }).click();
+    await expect.poll(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Journey Tester Renamed');
+    await page.locator('input[name="currentPassword"]').fill('not-the-password');
+    await page.locator('input[name="newPassword"]').fill('yet-another-password');
+    await page.getByRole('button', { name: 'Change password' }).click();
+    await expect.poll(() => fieldError(page, 'currentPassword').textContent()).toContain('not correct');
+    await shot('account-wrong-current-password');
   });
 });
 

@@ -56,6 +56,11 @@ export async function launchBrowser(options: { width?: number; height?: number }
   const page = context.pages()[0] ?? (await context.newPage());
   // Browser-side errors are journey failures waiting to happen: show them in the test output.
   page.on('pageerror', (error) => console.error(`[browser] ${error.message}`));
+  // Console errors include Content-Security-Policy refusals, which otherwise fail silently. Failed HTTP answers
+  // are left out: journeys provoke 4xx answers on purpose and check what the page shows for them.
+  page.on('console', (message) => {
+    if (message.type() === 'error' && !message.text().startsWith('Failed to load resource')) console.error(`[browser console] ${message.text()}`);
+  });
   return {
     context,
     page,
