@@ -11,6 +11,8 @@ import type { Guard } from './guard.js';
 export interface Clash {
   readonly rule: number;
   readonly env: readonly number[];
+  /** For a clash of ≈ against ≉: the two elements. */
+  readonly distinct?: readonly [number, number];
 }
 
 export interface ChaseMark {
@@ -93,7 +95,7 @@ export class Chase {
       const s = st.find(st.binarySubj[r]!);
       if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!);
     }
-    if (st.hasBinary(DISTINCT_ID, to, to)) { this.clash = { rule, env: [...env] }; return false; }
+    if (st.hasBinary(DISTINCT_ID, to, to)) { this.clash = { rule, env: [...env], distinct: [to, from] }; return false; }
     return true;
   }
 

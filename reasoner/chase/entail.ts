@@ -80,7 +80,8 @@ function components(input: ChaseInput): { of: Int32Array; count: number } {
 
 /** Computes Ent over the named individuals of `input` and streams it to `sink`. */
 export async function entail(program: RuleProgram, input: ChaseInput, sink: EntailedSink, options: EntailOptions): Promise<EntailOutcome> {
-  const compiled = compileProgram(program);
+  // Classes and properties that occur only in the data are vocabulary too: their facts are output.
+  const compiled = compileProgram({ ...program, classes: [...program.classes, ...input.classNames], properties: [...program.properties, ...input.propertyNames] });
   const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, models: 0, cachedComponents: 0 };
   const classIds = input.classNames.map((c) => compiled.unaryIds.get(c) ?? -1);
   const propIds = input.propertyNames.map((p) => compiled.binaryIds.get(p) ?? -1);
@@ -133,7 +134,10 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
         if (p >= 0) st.addBinary(p, localId.get(input.propSubj[r]!)!, localId.get(input.propObj[r]!)!, -1);
       }
       for (const r of diffRows[c]!) chase.addDistinct(localId.get(input.diffA[r]!)!, localId.get(input.diffB[r]!)!, -1);
-      for (const r of sameRows[c]!) chase.merge(localId.get(input.sameA[r]!)!, localId.get(input.sameB[r]!)!, -1, []);
+      for (const r of sameRows[c]!) {
+        const a = localId.get(input.sameA[r]!)!, b = localId.get(input.sameB[r]!)!;
+        if (!chase.merge(a, b, -1, [a, b])) return;
+      }
     };
     const result = chaseComponent(compiled, local.length, load, guard, plain, stats);
     if (result.clash !== undefined) {
@@ -192,6 +196,7 @@ function clashReport(chase: Chase): ClashReport | null {
     const predicate = a.kind === 0 ? chase.program.unaryNames[a.pred]! : chase.program.binaryNames[a.pred]!;
     facts.push({ predicate, args: args.map(named), derivedBy });
   }
+  if (clash.distinct) facts.push({ predicate: '≉', args: clash.distinct.map(named), derivedBy: -1 });
   return { rule: clash.rule, facts };
 }
 
@@ -230,6 +235,7 @@ function holdsKey(chase: Chase, key: string): boolean {
 function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; clash?: ClashReport | null } {
   const chase = new Chase(program, named, guard);
   load(chase);
+  if (chase.clash !== null) return { clash: clashReport(chase) };
   let firstClash: ClashReport | null | undefined;
   let certain: Set<string> | null = null;
   let candidates: string[] | null = null;

@@ -1,0 +1,111 @@
+// Test helpers for the reasoner core: run the engine on a tiny knowledge base given by names, and random tiny
+// knowledge bases (fast-check arbitraries, so counterexamples shrink).
+
+import fc from 'fast-check';
+import type { NormalAxiom, PropertyRef } from '../../../reasoner/model/normal.js';
+import { rewriteOntology } from '../../../reasoner/rewrite/rules-from-normal.js';
+import { entail, type ChaseInput } from '../../../reasoner/chase/entail.js';
+import { Guard } from '../../../reasoner/chase/guard.js';
+import type { TinyKb } from '../../reference/asp-reference.js';
+import type { ResourceLimits } from '../../../reasoner/api.js';
+
+const SOURCE = { axiomId: 0, position: 'test:1:1' };
+
+/** Runs the chase on the knowledge base; returns facts as `C(a)`, `R(a,b)`, `a=b`, or null if inconsistent. */
+export async function engineFacts(kb: TinyKb, path: 'optimised' | 'plain' = 'optimised', limits?: ResourceLimits): Promise<Set<string> | null> {
+  const classes = new Set<string>(), properties = new Set<string>();
+  for (const a of kb.axioms) {
+    if (a.kind === 'subsumption') { a.body.forEach((c) => classes.add(c)); a.head.forEach((c) => classes.add(c)); }
+    else if (a.kind === 'propertyInclusion') { properties.add(a.sub.name); properties.add(a.sup.name); }
+    else if (a.kind === 'propertyDisjointness') { properties.add(a.properties[0].name); properties.add(a.properties[1].name); }
+    else { classes.add(a.sub); if (a.filler) classes.add(a.filler); properties.add(a.property.name); }
+  }
+  const program = rewriteOntology({ axioms: kb.axioms, classes: [...classes], properties: [...properties], assertions: [] });
+  const individuals: string[] = [], idOf = new Map<string, number>();
+  const ind = (n: string) => { let i = idOf.get(n); if (i === undefined) { i = individuals.length; idOf.set(n, i); individuals.push(n); } return i; };
+  const classNames: string[] = [], propertyNames: string[] = [];
+  const nameId = (list: string[], n: string) => { let i = list.indexOf(n); if (i < 0) { i = list.length; list.push(n); } return i; };
+  const same = kb.same ?? [], different = kb.different ?? [];
+  const input: ChaseInput = {
+    classPred: Int32Array.from(kb.classFacts.map(([c]) => nameId(classNames, c))),
+    classInd: Int32Array.from(kb.classFacts.map(([, a]) => ind(a))),
+    propPred: Int32Array.from(kb.propertyFacts.map(([r]) => nameId(propertyNames, r))),
+    propSubj: Int32Array.from(kb.propertyFacts.map(([, a]) => ind(a))),
+    propObj: Int32Array.from(kb.propertyFacts.map(([, , b]) => ind(b))),
+    sameA: Int32Array.from(same.map(([a]) => ind(a))), sameB: Int32Array.from(same.map(([, b]) => ind(b))),
+    diffA: Int32Array.from(different.map(([a]) => ind(a))), diffB: Int32Array.from(different.map(([, b]) => ind(b))),
+    classNames, propertyNames, individuals: 0,
+  };
+  const facts = new Set<string>();
+  const outcome = await entail(program, { ...input, individuals: individuals.length }, {
+    unary: (c, i) => facts.add(`${c}(${individuals[i]})`),
+    binary: (p, s, o) => facts.add(`${p}(${individuals[s]},${individuals[o]})`),
+    same: (a, b) => facts.add(`${individuals[a]}=${individuals[b]}`),
+  }, { guard: new Guard(limits), path });
+  return outcome.status === 'ok' ? facts : null;
+}
+
+export const sub = (body: string[], head: string[]): NormalAxiom => ({ kind: 'subsumption', body, head, source: SOURCE });
+export const role = (name: string, inverse = false): PropertyRef => ({ name, inverse });
+export const some = (a: string, r: PropertyRef, b: string | null): NormalAxiom => ({ kind: 'exists', sub: a, property: r, filler: b, source: SOURCE });
+export const only = (a: string, r: PropertyRef, b: string | null): NormalAxiom => ({ kind: 'forall', sub: a, property: r, filler: b, source: SOURCE });
+export const atLeast = (a: string, n: number, r: PropertyRef, b: string | null): NormalAxiom => ({ kind: 'atLeast', sub: a, n, property: r, filler: b, source: SOURCE });
+export const atMost = (a: string, n: number, r: PropertyRef, b: string | null): NormalAxiom => ({ kind: 'atMost', sub: a, n, property: r, filler: b, source: SOURCE });
+export const incl = (r: PropertyRef, s: PropertyRef): NormalAxiom => ({ kind: 'propertyInclusion', sub: r, sup: s, source: SOURCE });
+export const disjointRoles = (r: PropertyRef, s: PropertyRef): NormalAxiom => ({ kind: 'propertyDisjointness', properties: [r, s], source: SOURCE });
+
+export interface KbShape {
+  readonly classes: number;
+  readonly properties: number;
+  readonly individuals: number;
+  readonly axioms: number;
+  readonly facts: number;
+  /** Allow disjunctive heads and ≤n with n ≥ 2. */
+  readonly disjunctive: boolean;
+  /** Allow ∃ and ≥n (existential heads). */
+  readonly existential: boolean;
+  /** Existentials only from class Ai to fillers Aj with j > i (an acyclic TBox: the Skolem chase is finite). */
+  readonly acyclic?: boolean;
+}
+
+/** Random tiny knowledge bases of the given shape. */
+export function tinyKb(shape: KbShape): fc.Arbitrary<TinyKb> {
+  const cls = fc.integer({ min: 0, max: shape.classes - 1 });
+  const className = cls.map((i) => `A${i}`);
+  const prop = fc.record({ name: fc.integer({ min: 0, max: shape.properties - 1 }).map((i) => `R${i}`), inverse: fc.boolean() });
+  const filler = fc.option(className, { freq: 4 });
+  // ⊥ heads are rarer than others, so that most random knowledge bases stay consistent.
+  const heads = fc.oneof({ arbitrary: fc.constant([] as string[]), weight: 1 }, { arbitrary: fc.array(className, { minLength: 1, maxLength: shape.disjunctive ? 3 : 1 }), weight: 6 });
+  const kinds: fc.Arbitrary<NormalAxiom>[] = [
+    fc.tuple(fc.array(className, { minLength: 0, maxLength: 2 }), heads).map(([b, h]) => sub([...new Set(b)], [...new Set(h)])),
+    fc.tuple(fc.array(className, { minLength: 1, maxLength: 2 }), className).map(([b, h]) => sub([...new Set(b)], [h])),
+    fc.tuple(className, prop, fc.option(className, { freq: 8 })).map(([a, r, b]) => only(a, r, b)),
+    fc.tuple(className, fc.integer({ min: 0, max: shape.disjunctive ? 2 : 1 }), prop, filler).map(([a, n, r, b]) => atMost(a, n, r, b)),
+    fc.tuple(prop, prop).map(([r, s]) => incl(r, s)),
+    fc.tuple(prop, prop).filter(([r, s]) => r.name !== s.name).map(([r, s]) => disjointRoles(r, s)),
+  ];
+  if (shape.existential) {
+    const pair = shape.acyclic
+      ? fc.tuple(cls, cls).filter(([i, j]) => i < j).map(([i, j]) => [`A${i}`, `A${j}`] as const)
+      : fc.tuple(className, className);
+    kinds.push(
+      fc.tuple(pair, prop, fc.boolean()).map(([[a, b], r, top]) => some(a, r, top ? null : b)),
+      fc.tuple(pair, prop).map(([[a, b], r]) => some(a, r, b)),
+      fc.tuple(pair, fc.integer({ min: 2, max: 3 }), prop).map(([[a, b], n, r]) => atLeast(a, n, r, b)),
+    );
+  }
+  const individual = fc.integer({ min: 0, max: shape.individuals - 1 }).map((i) => `i${i}`);
+  const propName = fc.integer({ min: 0, max: shape.properties - 1 }).map((i) => `R${i}`);
+  return fc.record({
+    axioms: fc.array(fc.oneof(...kinds), { minLength: 1, maxLength: shape.axioms }),
+    classFacts: fc.array(fc.tuple(className, individual), { minLength: 1, maxLength: shape.facts }),
+    propertyFacts: fc.array(fc.tuple(propName, individual, individual), { maxLength: shape.facts }),
+    same: fc.array(fc.tuple(individual, individual), { maxLength: 1 }),
+    different: fc.array(fc.tuple(individual, individual).filter(([a, b]) => a !== b), { maxLength: 2 }),
+  });
+}
+
+/** Compact text of a knowledge base for failure messages. */
+export function describeKb(kb: TinyKb): string {
+  return JSON.stringify({ ...kb, axioms: kb.axioms.map(({ source: _s, ...a }) => a) });
+}
