@@ -249,6 +249,33 @@ describe('journey: role-guarded pages', () => {
   });
 });
 
+describe('journey: the session survives a server restart', () => {
+  it('stays signed in when the app is stopped and started again on the same database', async () => {
+    const user = await createTestUser(app.ctx, { roles: ['publisher'], name: 'Restart Tester' });
+    const page = await freshPage();
+    const shot = journeyShots(page, 'session-restart');
+    await page.goto(app.url + '/sign-in');
+    await signInThroughForm(page, user.email, user.password);
+    await page.waitForURL(app.url + '/');
+    await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toContain('Facts that follow');
+    await expect.poll(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Restart Tester');
+
+    // A new app on a new context (new pools, nothing held in memory); cookies are scoped by host, not port, so the
+    // browser sends the same session cookie to the new one, and the session must come from PostgreSQL.
+    await app.close();
+    app = await startApp();
+    await page.goto(app.url + '/account');
+    await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toBe('Your account');
+    await expect.poll(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Restart Tester');
+    await shot('signed-in-after-restart');
+
+    // Writes still pass the CSRF check after the restart (the client fetches a token for the restored session).
+    await page.locator('input[name="name"]').fill('Restart Tester Again');
+    await page.getByRole('button', { name: 'Save name' }).click();
+    await expect.poll(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Restart Tester Again');
+  });
+});
+
 describe('journey: the shell on a narrow screen', () => {
   it('folds the navigation into a drawer opened from the menu button', async () => {
     const page = await freshPage({ width: 390, height: 800 });
