@@ -2,7 +2,8 @@
 // (`npm start` runs the seed on every start and keeps the data).
 import type { AppContext } from '../context.js';
 import { seedAccounts } from './accounts.js';
+import { seedPublisherListings } from './publisher.js';
 
 export type SeedStep = (ctx: AppContext) => Promise<void>;
 
-export const seedSteps: SeedStep[] = [(ctx) => seedAccounts(ctx)];
+export const seedSteps: SeedStep[] = [(ctx) => seedAccounts(ctx), (ctx) => seedPublisherListings(ctx)];
