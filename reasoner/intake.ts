@@ -119,7 +119,7 @@ export async function loadOntology(source: OntologySource, opts: LoadOntologyOpt
     } else {
       const prefixes: Record<string, string> = {};
       const base = /^[a-z][a-z0-9+.-]*:/i.test(name) ? name : pathToFileURL(resolve(name)).href;
-      const triples = format === 'rdfxml' ? await parseRdfXml(text, base, undefined, prefixes) : parseTurtle(text, format, base, prefixes);
+      const triples = format === 'rdfxml' ? await parseRdfXml(text, base, undefined, prefixes) : await parseTurtle(text, format, base, prefixes);
       ontology = rdfToOntology(triples, name, format, prefixes);
     }
   } catch (e) {

@@ -30,6 +30,12 @@ export interface NormaliseOptions {
   /** DisjointClasses / DifferentIndividuals with more operands than this use the linear encoding with fresh names (default 4 / 8). */
   readonly pairwiseDisjointLimit?: number;
   readonly pairwiseDifferentLimit?: number;
+  /**
+   * Called for each fresh class name with what it stands for: 'sub' when only X ⊑ definition is asserted
+   * (a positive occurrence), 'super' when only definition ⊑ X is. For tests that check the transformation
+   * against a finite model; the normal form does not depend on it.
+   */
+  readonly onFresh?: (name: string, definition: ClassExpression, polarity: 'sub' | 'super') => void;
 }
 
 type Item = ClassExpression;
@@ -47,6 +53,13 @@ export class Normaliser {
   /** Returns a new fresh class name (never an IRI: see FRESH_PREFIX). */
   freshName(): string {
     return FRESH_PREFIX + String(++this.fresh);
+  }
+
+  /** A fresh name standing for `definition` in the given direction (reported to options.onFresh). */
+  private freshFor(definition: ClassExpression, polarity: 'sub' | 'super'): string {
+    const x = this.freshName();
+    this.options.onFresh?.(x, definition, polarity);
+    return x;
   }
 
   private top(): string {
@@ -127,7 +140,7 @@ export class Normaliser {
       this.assertions.push({ kind: 'classAssertion', cls: n.name, individual, source: this.source });
       return;
     }
-    const x = this.freshName();
+    const x = this.freshFor(n, 'sub');
     this.assertions.push({ kind: 'classAssertion', cls: x, individual, source: this.source });
     this.clause([{ kind: 'class', name: x }], [n]);
   }
@@ -169,7 +182,7 @@ export class Normaliser {
       const ci = this.negativeName(classes[i]!);
       this.clause([previous, ci], []);
       if (i + 1 < classes.length) {
-        const p: ClassExpression = { kind: 'class', name: this.freshName() };
+        const p: ClassExpression = { kind: 'class', name: this.freshFor({ kind: 'or', operands: [previous, ci] }, 'super') };
         this.clause([previous], [p]);
         this.clause([ci], [p]);
         previous = p;
@@ -180,7 +193,7 @@ export class Normaliser {
   /** A class name X with C ⊑ X (C itself when it is a name). */
   private negativeName(c: ClassExpression): ClassExpression {
     if (c.kind === 'class') return c;
-    const x: ClassExpression = { kind: 'class', name: this.freshName() };
+    const x: ClassExpression = { kind: 'class', name: this.freshFor(c, 'super') };
     this.clause([c], [x]);
     return x;
   }
@@ -210,7 +223,7 @@ export class Normaliser {
         case 'and': bodyQueue.push(...b.operands); break;
         case 'or':
           if (single && restEmpty && bodyNames.length === 0) {
-            for (const o of b.operands) this.clause([o], head);   // (C ⊔ D) ⊑ H: C ⊑ H and D ⊑ H
+            for (const o of b.operands) this.clause([o], [...headQueue]);   // (C ⊔ D) ⊑ H: C ⊑ H and D ⊑ H (H includes items moved right)
             return;
           }
           bodyNames.push(this.nameOfNegative(b));   // (C ⊔ D) ⊓ E ⊑ H: C ⊔ D ⊑ X, X ⊓ E ⊑ H
@@ -221,7 +234,7 @@ export class Normaliser {
           const alone = single && restEmpty && bodyNames.length === 0;
           if (alone && headQueue.length === 1 && isTop(headQueue[0]!)) return;
           const direct = alone && (headQueue.length === 0 || (headQueue.length === 1 && headQueue[0]!.kind === 'class'));
-          const target: Item = direct ? (headQueue[0] ?? BOTTOM) : { kind: 'class', name: this.freshName() };
+          const target: Item = direct ? (headQueue[0] ?? BOTTOM) : { kind: 'class', name: this.freshFor(b, 'super') };
           this.clause([b.filler], [{ kind: 'all', property: invert(b.property), filler: target }]);
           if (direct) return;
           bodyNames.push((target as { name: string }).name);
@@ -262,7 +275,7 @@ export class Normaliser {
       return;
     }
     for (const h of headComplex) {
-      const x = this.freshName();
+      const x = this.freshFor(h, 'sub');
       headNames.push(x);
       this.clause([named(x)], [h]);
     }
@@ -271,7 +284,7 @@ export class Normaliser {
 
   /** A name X with C ⊑ X, for a complex body item. */
   private nameOfNegative(c: Item): string {
-    const x = this.freshName();
+    const x = this.freshFor(c, 'super');
     this.clause([c], [named(x)]);
     return x;
   }
@@ -280,7 +293,7 @@ export class Normaliser {
   private bodyName(names: readonly string[]): string {
     if (names.length === 0) return this.top();
     if (names.length === 1) return names[0]!;
-    const x = this.freshName();
+    const x = this.freshFor({ kind: 'and', operands: names.map(named) }, 'super');
     this.axioms.push({ kind: 'subsumption', body: dedupe(names), head: [x], source: this.source });
     return x;
   }
@@ -307,7 +320,7 @@ export class Normaliser {
   private positiveFiller(c: Item): string | null {
     if (isTop(c)) return null;
     if (c.kind === 'class') return c.name;
-    const y = this.freshName();
+    const y = this.freshFor(c, 'sub');
     this.clause([named(y)], [c]);
     return y;
   }

@@ -110,7 +110,9 @@ export async function readNTriples(path: string, builder: AboxBuilder, opts: Rea
  * huge token is an error, not unbounded memory.
  */
 export async function readTurtle(path: string, builder: AboxBuilder, opts: ReadOptions = {}): Promise<void> {
-  const parser = new N3Parser({ format: 'Turtle', blankNodePrefix: opts.blankPrefix ?? '' });
+  const parser = new N3Parser({ format: 'Turtle', blankNodePrefix: '' });
+  const local = opts.blankPrefix ?? '';
+  const key = (t: ReturnType<typeof fromRdfJs>) => (t.kind === 'blank' ? '_:' + local + t.key.slice(2) : t.key);
   const lexer = (parser as unknown as { _lexer?: { _line?: number; _input?: string | null } })._lexer;
   const maxLine = opts.maxLineBytes ?? 16 * 1024 * 1024;
   let onData: ((chunk: string) => void) | undefined, onEnd: (() => void) | undefined;
@@ -124,7 +126,7 @@ export async function readTurtle(path: string, builder: AboxBuilder, opts: ReadO
       }
       if (!quad || failure) return;
       const s = fromRdfJs(quad.subject), o = fromRdfJs(quad.object);
-      builder.triple(s.key, quad.predicate.value, o.key, o.kind === 'iri' ? IRI : o.kind === 'blank' ? BLANK : LITERAL);
+      builder.triple(key(s), quad.predicate.value, key(o), o.kind === 'iri' ? IRI : o.kind === 'blank' ? BLANK : LITERAL);
     });
   const decoder = new StringDecoder('utf8');
   let carry: Buffer | null = null, line = 0;

@@ -33,7 +33,7 @@ export function fromRdfJs(t: Term): RdfTerm {
   if (t.termType === 'NamedNode') return { kind: 'iri', key: t.value };
   if (t.termType === 'BlankNode') return { kind: 'blank', key: '_:' + t.value };
   if (t.termType === 'Literal') {
-    const lang = t.language || undefined;
+    const lang = t.language ? t.language.toLowerCase() : undefined;
     const datatype = lang ? RDF_LANG_STRING : t.datatype?.value || XSD_STRING;
     const literal: Literal = lang ? { lexical: t.value, datatype, lang } : { lexical: t.value, datatype };
     return { kind: 'literal', key: literalToNTriples(literal), literal };
@@ -48,29 +48,34 @@ export function tripleText(t: { s: string; p: string; o: RdfTerm }): string {
   return `${node(t.s)} <${t.p}> ${o} .`;
 }
 
-/** Parses Turtle or N-Triples text (n3.js). n3 reports errors with "on line N"; the line of each triple is read from its lexer. */
-export function parseTurtle(text: string, format: 'turtle' | 'ntriples', baseIRI?: string, prefixes: Record<string, string> = {}): RdfTriple[] {
+/** Parses Turtle or N-Triples text (n3.js). The line of each triple is that of the token that completed it. */
+export function parseTurtle(text: string, format: 'turtle' | 'ntriples', baseIRI?: string, prefixes: Record<string, string> = {}): Promise<RdfTriple[]> {
   const parser = new N3Parser({ format: format === 'ntriples' ? 'N-Triples' : 'Turtle', baseIRI });
   const triples: RdfTriple[] = [];
-  // n3 keeps the current line in its lexer; it is not public API, so fall back to 0 if absent.
-  const lexer = (parser as unknown as { _lexer?: { _line?: number } })._lexer;
-  let failure: Error | null = null;
-  parser.parse(text, (error: Error | null | undefined, quad: Quad | null | undefined, found?: Record<string, { value: string } | string>) => {
-    if (error) { failure ??= error; return; }
-    if (!quad) {
-      for (const [k, v] of Object.entries(found ?? {})) prefixes[k + ':'] = typeof v === 'string' ? v : v.value;
-      return;
-    }
-    if (quad.subject.termType !== 'NamedNode' && quad.subject.termType !== 'BlankNode') return;
-    if (quad.graph.termType !== 'DefaultGraph') return;
-    triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line: lexer?._line ?? 0 });
+  let line = 1;
+  return new Promise((resolve, reject) => {
+    let settled = false;
+    parser.parse(text, {
+      onToken: (token: { line?: number }) => { if (token.line) line = token.line; },
+      onPrefix: (prefix: string, iri: { value: string }) => { prefixes[prefix + ':'] = iri.value; },
+      onQuad: (error: Error | null | undefined, quad: Quad | null | undefined) => {
+        if (settled) return;
+        if (error) {
+          settled = true;
+          const e = error as Error & { context?: { line?: number } };
+          const at = e.context?.line ?? Number(/on line (\d+)/.exec(e.message)?.[1] ?? line);
+          reject(new RdfSyntaxError(e.message.replace(/\s*on line \d+\.?$/, ''), at));
+          return;
+        }
+        if (!quad) { settled = true; resolve(triples); return; }
+        if (quad.graph.termType !== 'DefaultGraph') return;
+        if (quad.subject.termType !== 'NamedNode' && quad.subject.termType !== 'BlankNode') return;
+        try {
+          triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line });
+        } catch (e) { settled = true; reject(e); }
+      },
+    } as never);
   });
-  if (failure) {
-    const e = failure as Error & { context?: { line?: number } };
-    const line = e.context?.line ?? Number(/on line (\d+)/.exec(e.message)?.[1] ?? 0);
-    throw new RdfSyntaxError(e.message.replace(/\s*on line \d+\.?$/, ''), line);
-  }
-  return triples;
 }
 
 export interface XmlLimits {

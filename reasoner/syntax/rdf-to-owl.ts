@@ -215,8 +215,8 @@ class ReverseMapping {
       ['minQualifiedCardinality', 'min'], ['maxQualifiedCardinality', 'max'], ['qualifiedCardinality', 'exact']] as const) {
       if (!(t = valueOf(word))) continue;
       const n = this.count(t.o, t);
-      const onClass = word.includes('Qualified') ? this.one(b, o('onClass')) : undefined;
-      const onRange = word.includes('Qualified') ? this.one(b, o('onDataRange')) : undefined;
+      const onClass = /qualified/i.test(word) ? this.one(b, o('onClass')) : undefined;
+      const onRange = /qualified/i.test(word) ? this.one(b, o('onDataRange')) : undefined;
       if (onRange || (data && !onClass)) {
         const dk = kind === 'min' ? 'dataMin' : kind === 'max' ? 'dataMax' : 'dataExact';
         return { kind: dk, n, property: pname, range: onRange ? this.dataRange(onRange.o, onRange) : null };
