@@ -232,8 +232,8 @@ export async function startStripeStandIn(options: { port?: number; secretKey?: s
   });
 
   const server: Server = await new Promise((resolve, reject) => {
-    const s = app.listen(port, '127.0.0.1', () => resolve(s));
-    s.on('error', reject);
+    // Express 5 passes a listen error to this callback (and the server has no address then).
+    const s = app.listen(port, '127.0.0.1', (error?: Error) => (error ? reject(new Error(`Stripe stand-in cannot listen on 127.0.0.1:${port}: ${error.message}`)) : resolve(s)));
   });
   const actualPort = (server.address() as { port: number }).port;
   origin = `http://127.0.0.1:${actualPort}`;
