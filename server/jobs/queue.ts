@@ -6,6 +6,11 @@ import { onShutdown } from '../lifecycle.js';
 
 export const KB_PROCESS_QUEUE = 'kb.process';
 
+/** The queue's name: 'kb.process'; THENCE_KB_QUEUE gives a test process a queue of its own (test files run in parallel). */
+export function kbQueueName(env: NodeJS.ProcessEnv = process.env): string {
+  return env.THENCE_KB_QUEUE || KB_PROCESS_QUEUE;
+}
+
 export interface KbProcessJob { versionId: string }
 
 /**
@@ -13,7 +18,11 @@ export interface KbProcessJob { versionId: string }
  * Expiry: a job still active after 6 hours is treated as dead by pg-boss and retried; a dead worker is usually found much
  * sooner by the heartbeat sweep in kbProcess.ts.
  */
-export const KB_PROCESS_POLICY = { retryLimit: 2, retryDelay: 30, retryBackoff: true, expireInSeconds: 6 * 3600, retentionMinutes: 7 * 24 * 60 } as const;
+export function kbProcessPolicy(env: NodeJS.ProcessEnv = process.env) {
+  // THENCE_KB_RETRY_DELAY_SECONDS shortens the delay for tests that exercise a retry.
+  const retryDelay = Number(env.THENCE_KB_RETRY_DELAY_SECONDS) > 0 ? Number(env.THENCE_KB_RETRY_DELAY_SECONDS) : 30;
+  return { retryLimit: 2, retryDelay, retryBackoff: true, expireInSeconds: 6 * 3600, retentionMinutes: 7 * 24 * 60 };
+}
 
 const instances = new WeakMap<AppContext, Promise<PgBoss>>();
 
@@ -25,7 +34,7 @@ export function queueFor(ctx: AppContext): Promise<PgBoss> {
       const instance = new PgBoss({ connectionString: ctx.config.databaseUrl, schema: 'pgboss', max: 4, application_name: 'thence-queue' });
       instance.on('error', (error) => console.error('queue:', error.message));
       await instance.start();
-      await instance.createQueue(KB_PROCESS_QUEUE, { name: KB_PROCESS_QUEUE, ...KB_PROCESS_POLICY });
+      await instance.createQueue(kbQueueName(), { name: kbQueueName(), ...kbProcessPolicy() });
       return instance;
     })();
     instances.set(ctx, boss);
@@ -46,7 +55,7 @@ export async function stopQueue(ctx: AppContext, timeoutMs = 20_000): Promise<vo
 /** Queues a version for processing; returns the job id (stored on the version for cancellation). */
 export async function enqueueProcessing(ctx: AppContext, versionId: string): Promise<string> {
   const boss = await queueFor(ctx);
-  const id = await boss.send(KB_PROCESS_QUEUE, { versionId } satisfies KbProcessJob, { ...KB_PROCESS_POLICY, singletonKey: versionId });
+  const id = await boss.send(kbQueueName(), { versionId } satisfies KbProcessJob, { ...kbProcessPolicy(), singletonKey: versionId });
   if (!id) throw new Error(`version ${versionId} is already queued`);
   await ctx.pool.query(`UPDATE kb_versions SET job_id = $2 WHERE id = $1`, [versionId, id]);
   return id;
@@ -55,5 +64,5 @@ export async function enqueueProcessing(ctx: AppContext, versionId: string): Pro
 /** Cancels a job that has not started; running jobs see the version's cancel flag instead. */
 export async function cancelQueuedJob(ctx: AppContext, jobId: string): Promise<void> {
   const boss = await queueFor(ctx);
-  await boss.cancel(KB_PROCESS_QUEUE, jobId);
+  await boss.cancel(kbQueueName(), jobId);
 }

@@ -1,6 +1,7 @@
 // Processing one version: reason over its files (parse → profile → normalise → rewrite → materialise) while the entailed
 // facts stream into PostgreSQL, then store (dictionary, indexes) and make the version visible in one transaction.
 // The same function serves the queue's worker and the demo seed (which calls it synchronously).
+import os from 'node:os';
 import type { AppContext } from '../context.js';
 import type { FactSink, ReasonOptions, ReasonResult } from '../../reasoner/api.js';
 import { dropFactTables, FactLoader, type LoadStats } from './factStore.js';
@@ -18,6 +19,8 @@ async function reasoner(): Promise<ReasonFunction> {
 /** A version whose heartbeat is older than this is taken to have lost its worker. Generous: a busy event loop delays beats. */
 export const HEARTBEAT_STALE_SECONDS = 180;
 const BEAT_MS = 1000;
+/** Names this process in the job log, so a publisher (and a test) can tell which worker ran an attempt. */
+export const WORKER_NAME = `${os.hostname()}:${process.pid}`;
 
 /** Thrown when the version is being processed by a live worker elsewhere; the queue retries later. */
 export class VersionBusyError extends Error {}
@@ -71,7 +74,7 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     return 'skipped';
   }
   const { store_key: storeKey, mode, attempts } = claimed;
-  await appendLog(ctx.pool, versionId, `Attempt ${attempts} started (${mode} mode).`);
+  await appendLog(ctx.pool, versionId, `Attempt ${attempts} started on worker ${WORKER_NAME} (${mode} mode).`);
   // Nothing of an earlier attempt can be visible (loads commit atomically), but a crash between commit and status is impossible
   // only because both happen in one transaction; dropping first keeps a retry correct even if that ever changes.
   await dropFactTables(ctx.pool, storeKey);
