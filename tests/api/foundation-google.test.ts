@@ -97,6 +97,29 @@ describe('Google sign-in through the stand-in', () => {
     expect((await agent.get('/api/auth/me')).body.user).toBeNull();
   });
 
+  it('signs in as whoever is chosen on the stand-in\'s page', async () => {
+    const page = await fetch(`${standIn.url}/standin`);
+    expect(page.headers.get('content-type')).toMatch(/text\/html/);
+    expect(await page.text()).toContain('Ada Quillfeather');
+    const chosen = uniqueEmail('google.chosen');
+    const choose = await fetch(`${standIn.url}/standin/default`, {
+      method: 'POST',
+      headers: { 'Content-Type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ email: 'omar.subscriber@demo.thence.test', other: chosen }),
+      redirect: 'manual',
+    });
+    expect(choose.status).toBe(303);
+    try {
+      const agent = await guestAgent(t.app);
+      expect(await googleSignIn(agent)).toBe('/?signedIn=google');
+      expect((await agent.get('/api/auth/me')).body.user.email).toBe(chosen);
+      const bad = await fetch(`${standIn.url}/standin/default`, { method: 'PUT', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'no' }) });
+      expect(bad.status).toBe(400);
+    } finally {
+      await fetch(`${standIn.url}/standin/default`, { method: 'PUT', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'omar.subscriber@demo.thence.test' }) });
+    }
+  });
+
   it('says which providers are on', async () => {
     expect((await (await guestAgent(t.app)).get('/api/auth/providers')).body).toEqual({ password: true, google: true });
   });
