@@ -2,13 +2,11 @@
 // the real app serving the built client on a loopback port, screenshots kept under .artifacts/screenshots/.
 import fs from 'node:fs';
 import fsp from 'node:fs/promises';
-import http from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
-import type { AddressInfo } from 'node:net';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import type { AppContext } from '../../server/context.js';
-import { createTestApp, type ConfigOverrides } from './app.js';
+import { startTestServer, type ConfigOverrides } from './app.js';
 
 /** Debian's chromium (the test script installs the package when it is missing). */
 export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
@@ -79,30 +77,14 @@ export interface RunningApp {
 }
 
 /**
- * Serves the real app (createApp on a test context, the built client from dist/) on 127.0.0.1 with an ephemeral port.
- * The port is known only after listen(), and PUBLIC_URL must name it, so the socket opens first and the app is attached after.
+ * Serves the real app (createApp on a test context) with the built client from dist/ on 127.0.0.1, ephemeral port,
+ * PUBLIC_URL naming that port (startTestServer in ./app.ts); refuses to start when the client is not built.
  */
 export async function startApp(overrides: ConfigOverrides = {}): Promise<RunningApp> {
   const dist = path.join(ROOT, overrides.clientDist ?? 'dist');
   if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`The client is not built (${dist}/index.html missing); run \`npx vite build\` first (npm test does).`);
-  const server = http.createServer();
-  await new Promise<void>((resolve, reject) => {
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => resolve());
-  });
-  const { port } = server.address() as AddressInfo;
-  const url = `http://127.0.0.1:${port}`;
-  const testApp = await createTestApp({ ...overrides, port, host: '127.0.0.1', publicUrl: url, clientDist: dist, cookieSecure: false });
-  server.on('request', testApp.app);
-  return {
-    url,
-    ctx: testApp.ctx,
-    close: async () => {
-      server.closeAllConnections();
-      await new Promise<void>((resolve) => server.close(() => resolve()));
-      await testApp.close();
-    },
-  };
+  const server = await startTestServer({ ...overrides, clientDist: dist });
+  return { url: server.url, ctx: server.ctx, close: server.close };
 }
 
 /** Saves a full-page PNG as .artifacts/screenshots/<journey>/<step>.png and returns its path. */
