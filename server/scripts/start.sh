@@ -4,6 +4,8 @@ set -euo pipefail
 source "$(dirname "$0")/env.sh"
 source "$(dirname "$0")/fakes-env.sh" 87
 
+# Background processes run tsx directly, not through npx: `npm exec` wraps the command in a shell that does not
+# pass SIGTERM on, so stopping the npx pid would leave the server itself running.
 PIDS=()
 cleanup() {
   trap - INT TERM EXIT
@@ -25,14 +27,14 @@ export SESSION_SECRET="$(cat "$DATA_DIR/session-secret")"
 log "migrating the database"
 npx tsx server/db/migrate.ts
 log "starting local stand-ins (OpenID Connect, SMTP catcher, Stripe)"
-npx tsx server/fakes/main.ts & PIDS+=($!)
+"$ROOT/node_modules/.bin/tsx" server/fakes/main.ts & PIDS+=($!)
 wait_for_port "$SMTP_PORT" "SMTP catcher"; wait_for_port "$OAUTH_STANDIN_PORT" "OpenID Connect stand-in"; wait_for_port "$STRIPE_STANDIN_PORT" "Stripe stand-in"
 log "seeding demo data"
 npx tsx server/seed/index.ts
 log "building the client"
 npx vite build --logLevel warn
-npx tsx server/worker.ts & PIDS+=($!)
-npx tsx server/main.ts & PIDS+=($!)
+"$ROOT/node_modules/.bin/tsx" server/worker.ts & PIDS+=($!)
+"$ROOT/node_modules/.bin/tsx" server/main.ts & PIDS+=($!)
 wait_for_port "$PORT" "Thence"
 cat <<MSG
 

@@ -4,6 +4,8 @@ set -uo pipefail
 source "$(dirname "$0")/env.sh"
 source "$(dirname "$0")/fakes-env.sh" 97
 
+# Background processes run tsx directly, not through npx: `npm exec` wraps the command in a shell that does not
+# pass SIGTERM on, so stopping the npx pid would leave the server itself running.
 PIDS=()
 cleanup() {
   trap - INT TERM EXIT
@@ -28,7 +30,7 @@ rm -rf "$THENCE_DATA_DIR"; mkdir -p "$THENCE_DATA_DIR"
 ARTIFACTS="$ROOT/.artifacts"; mkdir -p "$ARTIFACTS"
 
 npx tsx server/db/migrate.ts || die "migrations failed"
-npx tsx server/fakes/main.ts > "$ARTIFACTS/fakes.log" 2>&1 & PIDS+=($!)
+"$ROOT/node_modules/.bin/tsx" server/fakes/main.ts > "$ARTIFACTS/fakes.log" 2>&1 & PIDS+=($!)
 wait_for_port "$SMTP_PORT" "SMTP catcher"; wait_for_port "$OAUTH_STANDIN_PORT" "OpenID Connect stand-in"; wait_for_port "$STRIPE_STANDIN_PORT" "Stripe stand-in"
 npx vite build --logLevel warn || die "client build failed"
 
