@@ -4,6 +4,8 @@
 // Subscription price changes take effect at once without proration (proration_behavior is accepted and ignored).
 import express, { type Request, type Response, type NextFunction } from 'express';
 import type { Server } from 'node:http';
+import fs from 'node:fs';
+import path from 'node:path';
 import { checkoutPage, StripeBilling } from './stripeBilling.js';
 import { bool, decodeForm, integer, list, metadataOf, newId, now, paramInvalid, paramMissing, publicView, StripeAccount, StripeStandInError, text, type Obj } from './stripeState.js';
 
@@ -11,7 +13,7 @@ export interface StripeStandIn { close(): Promise<void>; url: string; account: S
 
 type Handler = (params: Record<string, string>, body: Record<string, unknown>, query: Record<string, unknown>) => Promise<unknown> | unknown;
 
-export async function startStripeStandIn(options: { port?: number; secretKey?: string; webhookSecret?: string; webhookUrl?: string | null } = {}): Promise<StripeStandIn> {
+export async function startStripeStandIn(options: { port?: number; secretKey?: string; webhookSecret?: string; webhookUrl?: string | null; stateFile?: string | null } = {}): Promise<StripeStandIn> {
   const port = options.port ?? Number(process.env.STRIPE_STANDIN_PORT ?? 8712);
   const secretKey = options.secretKey ?? process.env.STRIPE_SECRET_KEY ?? 'sk_test_thence_local';
   const webhookSecret = options.webhookSecret ?? process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_thence_local';
@@ -19,9 +21,32 @@ export async function startStripeStandIn(options: { port?: number; secretKey?: s
   const defaultWebhookUrl = options.webhookUrl !== undefined ? options.webhookUrl : process.env.THENCE_WEBHOOK_URL ?? (process.env.PUBLIC_URL ? `${process.env.PUBLIC_URL.replace(/\/$/, '')}/api/webhooks/stripe` : null);
   let origin = `http://127.0.0.1:${port}`;
   const account = new StripeAccount();
+  // State file: the demo keeps its products, prices and subscriptions across restarts (the test run starts from an empty folder).
+  const stateFile = options.stateFile !== undefined ? options.stateFile : path.join(process.env.THENCE_DATA_DIR ?? '.data', 'stripe-standin.json');
+  if (stateFile && fs.existsSync(stateFile)) {
+    try {
+      account.restore(fs.readFileSync(stateFile, 'utf8'));
+    } catch (error) {
+      console.error(`stripe stand-in: ignoring unreadable state file ${stateFile}: ${(error as Error).message}`);
+    }
+  }
+  let saveTimer: NodeJS.Timeout | null = null;
+  const save = () => {
+    if (!stateFile || saveTimer) return;
+    saveTimer = setTimeout(() => {
+      saveTimer = null;
+      fs.mkdirSync(path.dirname(stateFile), { recursive: true });
+      fs.writeFileSync(`${stateFile}.tmp`, account.snapshot());
+      fs.renameSync(`${stateFile}.tmp`, stateFile);
+    }, 200);
+  };
   const billing = new StripeBilling(account, webhookSecret, defaultWebhookUrl);
   const app = express();
   app.disable('x-powered-by');
+  app.use((req, res, next) => {
+    if (req.method !== 'GET') res.on('finish', save);
+    next();
+  });
   app.use(express.text({ type: () => true, limit: '1mb' }));
 
   const api = express.Router();
@@ -241,6 +266,15 @@ export async function startStripeStandIn(options: { port?: number; secretKey?: s
     url: `http://127.0.0.1:${actualPort}`,
     account,
     billing,
-    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
+    close: () =>
+      new Promise<void>((resolve) => {
+        if (saveTimer) {
+          clearTimeout(saveTimer);
+          saveTimer = null;
+          if (stateFile) fs.writeFileSync(stateFile, account.snapshot());
+        }
+        server.close(() => resolve());
+        server.closeAllConnections();
+      }),
   };
 }

@@ -118,6 +118,21 @@ export class StripeAccount {
   all(object: string): Obj[] {
     return [...(this.objects.get(object)?.values() ?? [])];
   }
+
+  /** Everything, for the state file (so `npm start` keeps products, prices and subscriptions across restarts). */
+  snapshot(): string {
+    return JSON.stringify({ seq, objects: [...this.objects.values()].flatMap((m) => [...m.values()]) });
+  }
+
+  restore(text: string): void {
+    const data = JSON.parse(text) as { seq: number; objects: Obj[] };
+    for (const o of data.objects) {
+      let kind = this.objects.get(o.object);
+      if (!kind) this.objects.set(o.object, (kind = new Map()));
+      kind.set(o.id, o);
+    }
+    seq = Math.max(seq, data.seq);
+  }
 }
 
 export function metadataOf(value: unknown, param = 'metadata'): Record<string, string> {

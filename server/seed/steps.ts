@@ -3,7 +3,8 @@
 import type { AppContext } from '../context.js';
 import { seedAccounts } from './accounts.js';
 import { seedPublisherListings } from './publisher.js';
+import { seedMarket } from './market.js';
 
 export type SeedStep = (ctx: AppContext) => Promise<void>;
 
-export const seedSteps: SeedStep[] = [(ctx) => seedAccounts(ctx), (ctx) => seedPublisherListings(ctx)];
+export const seedSteps: SeedStep[] = [(ctx) => seedAccounts(ctx), (ctx) => seedPublisherListings(ctx), (ctx) => seedMarket(ctx)];

@@ -58,7 +58,7 @@ describe('GET /api/v1/kbs/:slug/facts', () => {
     let cursor: string | null = null;
     let pages = 0;
     do {
-      const res = await get(`/api/v1/kbs/${listing.slug}/facts?predicate=${encodeURIComponent(RDF_TYPE)}&object=${encodeURIComponent(EX + 'Place')}&limit=10${cursor ? `&cursor=${cursor}` : ''}`).expect(200);
+      const res: supertest.Response = await get(`/api/v1/kbs/${listing.slug}/facts?predicate=${encodeURIComponent(RDF_TYPE)}&object=${encodeURIComponent(EX + 'Place')}&limit=10${cursor ? `&cursor=${cursor}` : ''}`).expect(200);
       expect(res.body.kb).toEqual({ slug: listing.slug, version: 1 });
       for (const f of res.body.facts) {
         expect(f).toMatchObject({ predicate: RDF_TYPE, object: `${EX}Place`, asserted: false });

@@ -13,7 +13,7 @@ export type FactRow = [subject: string, predicate: string, object: string, asser
 
 export interface TestListing { id: string; slug: string; title: string; storeKey: number; publisher: TestUser }
 
-export const asUser = (u: TestUser): Express.User => ({ id: u.id, email: u.email, name: u.name, roles: u.roles, emailVerified: true });
+export const asUser = (u: TestUser): Express.User => ({ id: u.id, email: u.email, name: u.name, roles: u.roles, emailVerified: true, hasPassword: true, google: false });
 
 /** A published listing with exactly these facts in its served version. */
 export async function publishedListing(ctx: AppContext, facts: FactRow[], options: { publisher?: TestUser; title?: string } = {}): Promise<TestListing> {

@@ -18,7 +18,7 @@ export interface PaymentsHarness extends TestApp {
 export async function startPaymentsHarness(): Promise<PaymentsHarness> {
   const secretKey = 'sk_test_thence_harness';
   const webhookSecret = 'whsec_thence_harness';
-  const standIn = await startStripeStandIn({ port: 0, secretKey, webhookSecret, webhookUrl: null });
+  const standIn = await startStripeStandIn({ port: 0, secretKey, webhookSecret, webhookUrl: null, stateFile: null });
   let handler: Express | null = null;
   const server = http.createServer((req, res) => (handler ? handler(req, res) : res.writeHead(503).end()));
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
