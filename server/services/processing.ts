@@ -165,7 +165,13 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     return 'ready';
   } catch (error) {
     await loader?.abort();
-    const message = (error as Error).message;
+    // An abort may surface as whatever the reader threw (the signal's reason, an AbortError): the flag decides.
+    if (controller.signal.aborted && controller.signal.reason === 'cancel') {
+      await finishWith(ctx, versionId, 'cancelled', { stage: null });
+      await appendLog(ctx.pool, versionId, 'Cancelled; no facts were stored.', 'warning');
+      return 'cancelled';
+    }
+    const message = error instanceof Error ? error.message : String(error);
     if (options.finalAttempt) {
       await finishWith(ctx, versionId, 'failed', { error: `Processing stopped: ${message}` });
       await appendLog(ctx.pool, versionId, `Attempt ${attempts} failed and no retries are left: ${message}`, 'error');

@@ -10,6 +10,7 @@ import { stopQueue } from '../../server/jobs/queue.js';
 import { factTablesExist, lookupFacts } from '../../server/services/factStore.js';
 import { reason } from '../../reasoner/index.js';
 import { writeHarbourDataset } from '../bench/harbour-data.js';
+import { waitForMail } from '../support/mail.js';
 
 // A queue of this file's own, so no other test process's worker takes these jobs.
 process.env.THENCE_KB_QUEUE = `kb-process-test-${randomUUID().slice(0, 8)}`;
@@ -97,6 +98,9 @@ describe('processing and publishing', () => {
     expect(detail.version.counts.facts).toBe(expected.length);
     expect(detail.version.counts.classes.find((c: { iri: string }) => c.iri === `${G}NeedsWaymarking`).entailed).toBeGreaterThanOrEqual(4);
     expect(detail.log.map((l: { message: string }) => l.message).join('\n')).toMatch(/Ready: \d+ facts/);
+    // The publisher is told by mail (through the local SMTP catcher).
+    const mail = await waitForMail(alice.user.email, /version 1 is ready to publish/);
+    expect(mail.text).toContain(`/publisher/versions/${v1}`);
     const program = await alice.get(`/api/publisher/versions/${v1}/program`);
     expect(program.status).toBe(200);
     expect(program.text).toContain('→');
@@ -161,6 +165,7 @@ describe('processing and publishing', () => {
     expect(res.status).toBe(201);
     const done = await waitFor(res.body.version.id, terminal);
     expect(done.status).toBe('failed');
+    expect((await waitForMail(alice.user.email, /Processing broken: version 1 failed/)).text).toContain('could not be made ready');
     const detail = (await alice.get(`/api/publisher/versions/${res.body.version.id}`)).body.version;
     const error = detail.diagnostics.find((d: { severity: string }) => d.severity === 'error');
     expect(error.position).toMatch(/:\d+(:\d+)?$/);
@@ -199,6 +204,10 @@ describe('processing and publishing', () => {
     expect((await alice.post(`/api/publisher/versions/${id}/cancel`)).status).toBe(200);
     const done = await waitFor(id, terminal);
     expect(done.status).toBe('cancelled');
+    // Cancelled at once by the running job, not left to fail and retry.
+    const log = (await alice.get(`/api/publisher/versions/${id}`)).body.log.map((l: { message: string }) => l.message).join('\n');
+    expect(log).toContain('Cancelled; no facts were stored.');
+    expect(log).not.toMatch(/will be retried/);
     const key = (await t.ctx.pool.query(`SELECT store_key FROM kb_versions WHERE id = $1`, [id])).rows[0].store_key;
     expect(await factTablesExist(t.ctx.pool, key)).toBe(false);
   }, 90_000);
