@@ -30,3 +30,8 @@ export function signInLimiter(): RequestHandler {
 export function mailLimiter(): RequestHandler {
   return limiter(60 * 60 * 1000, 5, (req) => `${ipKeyGenerator(req.ip ?? '')}|${req.user?.email ?? emailOf(req)}`, 'Too many mails asked for this address; wait an hour and try again.');
 }
+
+/** Sign-ups: 30 per hour per client IP, enough for a classroom behind one address, too few for a script. */
+export function signUpLimiter(): RequestHandler {
+  return limiter(60 * 60 * 1000, 30, (req) => ipKeyGenerator(req.ip ?? ''), 'Too many sign-ups from this address; try again in an hour.');
+}

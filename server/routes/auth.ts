@@ -6,13 +6,12 @@ import { requestResetSchema, resetPasswordSchema, signInSchema, signUpSchema, ve
 import { passportFor, toSessionUser } from '../auth/passport.js';
 import { publicRoute, requireAuth } from '../auth/guards.js';
 import { GOOGLE_SCOPES, googleConfigured } from '../auth/strategies.js';
-import { mailLimiter, signInLimiter } from '../auth/limits.js';
+import { mailLimiter, signInLimiter, signUpLimiter } from '../auth/limits.js';
 import { HttpError } from '../http/errors.js';
 import { parseBody } from '../http/validate.js';
 import { createPasswordUser, endSessions, findUserByEmail, findUserById, markEmailVerified, setPassword } from '../services/users.js';
 import { consumeToken, issueToken, revokeTokens } from '../services/tokens.js';
 import { passwordResetMail, sendMail, verificationMail } from '../services/mail.js';
-import { rateLimit } from 'express-rate-limit';
 
 /** Signs the user into this session; passport ≥ 0.6 regenerates the session id first (no session fixation). */
 function logIn(req: Request, user: Express.User): Promise<void> {
@@ -40,14 +39,6 @@ const invalidToken = (what: string) => new HttpError(400, `This ${what} link is 
 export function authRouter(ctx: AppContext): Router {
   const router = Router();
   const passport = passportFor(ctx);
-  const signUpLimiter = rateLimit({
-    windowMs: 60 * 60 * 1000,
-    limit: 30,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, _res, next) => next(new HttpError(429, 'Too many sign-ups from this address; try again in an hour.', 'rate_limited')),
-  });
-
   router.get('/me', publicRoute, (req, res) => {
     res.json({ user: req.user ?? null });
   });
@@ -57,7 +48,7 @@ export function authRouter(ctx: AppContext): Router {
     res.json({ password: true, google: googleConfigured(ctx) });
   });
 
-  router.post('/sign-up', publicRoute, signUpLimiter, async (req, res) => {
+  router.post('/sign-up', publicRoute, signUpLimiter(), async (req, res) => {
     const input = parseBody(signUpSchema, req.body, 'sign-up form');
     const user = await createPasswordUser(ctx, input);
     const mailSent = await sendVerification(ctx, user);
