@@ -1,22 +1,15 @@
 // Route guards: every route states who may call it. 401 when signed out, 403 (JSON) when the role is missing.
 import type { RequestHandler } from 'express';
 import type { Role } from '../../shared/roles.js';
+import type { SessionUser } from '../../shared/auth.js';
 import { forbidden, unauthenticated } from '../http/errors.js';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
-    interface User {
-      id: string;
-      email: string;
-      name: string;
-      roles: Role[];
-      emailVerified: boolean;
-      /** Can sign in with a password (Google-only accounts cannot until they set one by reset). */
-      hasPassword: boolean;
-      /** Linked to a Google account. */
-      google: boolean;
-    }
+    /** req.user is exactly what GET /api/auth/me sends the client (shared/auth.ts), so the two cannot drift apart. */
+    // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+    interface User extends SessionUser {}
   }
 }
 
