@@ -10,7 +10,7 @@ export interface Config {
   readonly dataDir: string;
   readonly uploadDir: string;
   readonly clientDist: string;
-  readonly mail: { readonly host: string; readonly port: number; readonly from: string; readonly viewerUrl: string | null };
+  readonly mail: { readonly host: string; readonly port: number; readonly from: string; readonly viewerUrl: string | null; readonly user: string | null; readonly password: string | null };
   readonly google: { readonly clientId: string; readonly clientSecret: string; readonly issuer: string | null };
   readonly stripe: {
     readonly secretKey: string;
@@ -48,6 +48,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       port: int(env.SMTP_PORT, 8725),
       from: env.MAIL_FROM ?? 'Thence <no-reply@thence.test>',
       viewerUrl: env.MAIL_VIEWER_URL ?? null,
+      // A real relay usually wants a login; the local catcher takes none.
+      user: env.SMTP_USER || null,
+      password: env.SMTP_PASSWORD || null,
     },
     google: {
       clientId: env.GOOGLE_CLIENT_ID ?? '',

@@ -8,7 +8,7 @@ const transports = new WeakMap<AppContext, Transporter>();
 function transportFor(ctx: AppContext): Transporter {
   let transport = transports.get(ctx);
   if (!transport) {
-    const { host, port } = ctx.config.mail;
+    const { host, port, user, password } = ctx.config.mail;
     const loopback = host === '127.0.0.1' || host === 'localhost' || host === '::1';
     transport = nodemailer.createTransport({
       host,
@@ -17,6 +17,7 @@ function transportFor(ctx: AppContext): Transporter {
       // The loopback catcher speaks plain SMTP; anywhere else STARTTLS is required.
       ignoreTLS: loopback,
       requireTLS: !loopback && port !== 465,
+      ...(user ? { auth: { user, pass: password ?? '' } } : {}),
       connectionTimeout: 10_000,
       greetingTimeout: 10_000,
     });
