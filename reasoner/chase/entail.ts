@@ -53,7 +53,7 @@ export interface EntailStats {
 
 export interface EntailOptions {
   readonly guard: Guard;
-  /** 'optimised' (components, cautious search, caching) or 'plain' (one chase, every branch, intersection). */
+  /** 'optimised' (components, certain facts, caching of isolated individuals) or 'plain' (one chase over the whole ABox). */
   readonly path?: 'optimised' | 'plain';
   /** Called between components with the fraction done; may await so that cancellation can be seen. */
   readonly onComponent?: (done: number, total: number) => void | Promise<void>;
@@ -227,41 +227,36 @@ function holdsKey(chase: Chase, key: string): boolean {
 
 /**
  * Chases one component. A model reached without any choice is the only one (always so for Horn programs). Otherwise
- * the cautious-consequence loop: the facts true before the first choice are certain; after each model the candidates
- * shrink to what it shares with the earlier ones, and a ground constraint closes every branch in which all remaining
- * candidates hold, so each further model removes at least one. Plain path: every complete open branch is visited
- * and the models are intersected.
+ * the cautious-consequence loop: after each model the candidates shrink to what it shares with the earlier ones, and
+ * a ground constraint (all remaining candidates → ⊥) closes every branch in which all of them hold, so each further
+ * model removes at least one candidate and the search visits at most |candidates| + 1 models.
+ * Optimised: facts true before the first choice are certain (in every model) and are never candidates.
+ * Plain: every fact of the first model is a candidate (nothing is taken as certain).
  */
 function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; clash?: ClashReport | null } {
   const chase = new Chase(program, named, guard);
   load(chase);
   if (chase.clash !== null) return { clash: clashReport(chase) };
   let firstClash: ClashReport | null | undefined;
-  let certain: Set<string> | null = null;
+  let certain = new Set<string>();
   let candidates: string[] | null = null;
-  let intersection: Set<string> | null = null;
   let only: NamedFacts | null = null;
   const models = search(chase, guard, {
-    onRoot: (c) => { certain = keyOf(namedFacts(c)); },
+    onRoot: plain ? undefined : (c) => { certain = keyOf(namedFacts(c)); },
     onClash: (c) => { if (firstClash === undefined) firstClash = clashReport(c); },
-    violated: plain ? undefined : (c) => candidates !== null && candidates.every((k) => holdsKey(c, k)),
+    violated: (c) => candidates !== null && candidates.every((k) => holdsKey(c, k)),
     onModel: (c, choices) => {
-      if (choices === 0 && certain === null) { only = namedFacts(c); return true; }
+      if (choices === 0 && candidates === null) { only = namedFacts(c); return true; }
       const model = keyOf(namedFacts(c));
-      if (plain) {
-        if (intersection === null) intersection = model; else for (const k of intersection) if (!model.has(k)) intersection.delete(k);
-        return false;
-      }
-      candidates = candidates === null ? [...model].filter((k) => !certain!.has(k)) : candidates.filter((k) => model.has(k));
+      candidates = candidates === null ? [...model].filter((k) => !certain.has(k)) : candidates.filter((k) => model.has(k));
       return candidates.length === 0;
     },
-  }, { eager: plain });
+  });
   stats.models += models;
   if (models === 0) {
     if (firstClash === undefined && chase.clash !== null) firstClash = clashReport(chase);
     return { clash: firstClash ?? null };
   }
   if (only !== null) return { facts: only };
-  if (intersection !== null) return { facts: factsOfKeys(intersection) };
-  return { facts: factsOfKeys([...certain!, ...(candidates ?? [])]) };
+  return { facts: factsOfKeys([...certain, ...(candidates ?? [])]) };
 }
