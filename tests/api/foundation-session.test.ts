@@ -75,3 +75,28 @@ describe('test server on a loopback port', () => {
     }
   });
 });
+
+describe('cookies behind HTTPS', () => {
+  it('are Secure, HttpOnly, SameSite=Lax and __Host- prefixed (RFC 6265bis, the "__Host-" prefix: Secure, Path=/, no Domain; section number from memory: §4.1.3.2)', async () => {
+    const secure = await createTestApp({ cookieSecure: true, publicUrl: 'https://thence.example' });
+    try {
+      // A TLS-terminating proxy on loopback (trust proxy: loopback) tells the app the request came over HTTPS.
+      const res = await request(secure.app).get('/api/csrf').set('X-Forwarded-Proto', 'https');
+      expect(res.status).toBe(200);
+      const cookies = ([] as string[]).concat(res.headers['set-cookie'] as unknown as string[]);
+      const sid = cookies.find((c) => c.startsWith('__Host-thence.sid='));
+      const csrf = cookies.find((c) => c.startsWith('__Host-thence.csrf='));
+      for (const cookie of [sid, csrf]) {
+        expect(cookie).toBeDefined();
+        expect(cookie).toMatch(/; Secure/);
+        expect(cookie).toMatch(/; HttpOnly/);
+        expect(cookie).toMatch(/; SameSite=Lax/i);
+        expect(cookie).toMatch(/; Path=\//);
+        expect(cookie).not.toMatch(/Domain=/i);
+      }
+      expect(res.headers['strict-transport-security']).toMatch(/max-age=\d+/);
+    } finally {
+      await secure.close();
+    }
+  });
+});
