@@ -6,8 +6,8 @@ import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { DatasetSource, Diagnostic, OntologyFormat, OntologySource, ProfileMode, ProfileReport, Progress } from './api.js';
 import type { Axiom, Ontology } from './model/axioms.js';
-import { normaliseAxioms } from './normal/normalise.js';
-import { checkProfile } from './profile/profile.js';
+import { assemble, normaliseAxioms } from './normal/normalise.js';
+import { checkProfile, normalFormCache } from './profile/profile.js';
 import { AboxBuilder, LineError, datasetFormat, readCsv, readNTriples, readTurtle, type IntakeCounts, type ReadOptions } from './syntax/dataset-readers.js';
 import { OfnSyntaxError, parseOfn } from './syntax/ofn-parser.js';
 import { RdfSyntaxError, parseRdfXml, parseTurtle } from './syntax/rdf-graph.js';
@@ -140,6 +140,11 @@ export function profile(ontology: Ontology, mode: ProfileMode = 'strict'): Profi
 
 /** Normal form of the kept axioms (and of the assertions among them). */
 export function normalise(ontology: Ontology, keptAxioms: readonly Axiom[]): NormalOntology {
+  // The profile check already normalised each in-profile axiom; reuse its slices when it covers them all.
+  const cached = normalFormCache.get(ontology);
+  if (cached && keptAxioms.every((a) => cached.slices.has(a.id))) {
+    return assemble(ontology.axioms, cached.normaliser, keptAxioms.map((a) => cached.slices.get(a.id)!));
+  }
   return normaliseAxioms(ontology.axioms, keptAxioms);
 }
 

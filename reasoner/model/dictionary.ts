@@ -1,63 +1,153 @@
-// Term dictionary: maps every term (IRI, blank node, N-Triples literal) to a dense integer id and back.
+// Term dictionary: maps every term (IRI, blank node, N-Triples literal) to a dense integer id and back, stored as UTF-8 bytes.
 
 /**
  * Term encoding, shared by every user of the dictionary (so that one dictionary can hold a whole ABox):
  * - an IRI is stored as the bare IRI text, without angle brackets (`http://example.org/a`);
  * - a blank node is stored as `_:label` (no IRI can start with `_:`: a scheme starts with a letter);
  * - a literal is stored in canonical N-Triples form, `"lexical"`, `"lexical"@lang` or `"lexical"^^<datatype>`
- *   (no IRI starts with `"`); see `syntax/ntriples.ts` for the canonicalisation.
+ *   (no IRI starts with `"`); see `syntax/terms.ts` for the canonicalisation.
  * - internal fresh names (`model/normal.ts` FRESH_PREFIX) start with U+0001 and never clash with the above.
  *
- * Memory (V8, 64-bit with pointer compression, measured by tests/bench/intake.ts): one Map entry
- * (≈ 12 bytes in the ordered hash table plus bucket share), one array slot (4 bytes) and the string itself
- * (≈ 12–16 bytes header + 1 byte per Latin-1 character, 2 per character otherwise). The string is
- * shared between the map key and the array. Roughly 30 bytes + length per term.
- *
- * Callers must pass *flat* strings (e.g. from `Buffer.toString(start, end)`), not slices of a large chunk:
- * V8 keeps the parent of a sliced string alive, so interning slices would retain whole input chunks.
+ * Storage: the UTF-8 bytes of all terms in one growable byte arena, an Int32Array of start offsets, and an
+ * open-addressing hash table (FNV-1a over the bytes) of ids with their hashes. No JS string is kept per term:
+ * a term costs its UTF-8 length + 4 bytes (offset) + 8–16 bytes of table (load ≤ 0.5), i.e. about
+ * length + 20 bytes, against ≈ length + 50 for a Map<string, number> with a string array. `internBytes` lets
+ * readers intern straight from an input chunk, so a repeated term never becomes a string at all (the hot
+ * path of dataset intake). `term(id)` decodes the bytes (a fresh string each call: callers that print many
+ * terms may cache).
  */
 export class TermDictionary {
-  private readonly ids = new Map<string, number>();
-  private readonly terms: string[] = [];
+  private arena: Buffer = Buffer.allocUnsafe(1 << 16);
+  private arenaLength = 0;
+  private starts = new Int32Array(1024);
+  private count = 0;
+  /** Slot → id + 1 (0 = empty). */
+  private slots = new Int32Array(1 << 12);
+  /** Slot → hash of the term there (to skip most byte comparisons). */
+  private hashes = new Int32Array(1 << 12);
+  private mask = (1 << 12) - 1;
+  private scratch: Buffer = Buffer.allocUnsafe(1 << 12);
 
   /** Returns the id of the term, adding it if new. Ids are dense: 0, 1, 2, … in order of first intern. */
   intern(term: string): number {
-    let id = this.ids.get(term);
-    if (id === undefined) {
-      id = this.terms.length;
-      this.ids.set(term, id);
-      this.terms.push(term);
-    }
-    return id;
+    const n = this.encode(term);
+    return this.internBytes(this.scratch, 0, n);
   }
 
   /** Returns the id of a term already interned, or -1. */
   id(term: string): number {
-    const id = this.ids.get(term);
-    return id === undefined ? -1 : id;
+    const n = this.encode(term);
+    return this.lookup(this.scratch, 0, n, hashBytes(this.scratch, 0, n));
   }
 
   /** Returns true if the term is interned. */
   has(term: string): boolean {
-    return this.ids.has(term);
+    return this.id(term) >= 0;
   }
 
   /** Returns the term of an id; throws a RangeError for an id never given out. */
   term(id: number): string {
-    const term = this.terms[id];
-    if (term === undefined) throw new RangeError(`no term with id ${id} (dictionary size ${this.terms.length})`);
-    return term;
+    if (!(id >= 0 && id < this.count)) throw new RangeError(`no term with id ${id} (dictionary size ${this.count})`);
+    return this.arena.toString('utf8', this.starts[id]!, this.end(id));
   }
 
   /** Number of distinct terms. */
   get size(): number {
-    return this.terms.length;
+    return this.count;
+  }
+
+  /** Bytes held (arena, offsets, hash table), for memory reports. */
+  get byteLength(): number {
+    return this.arena.length + this.starts.byteLength + this.slots.byteLength + this.hashes.byteLength;
   }
 
   /** Iterates [id, term] in id order. */
   *entries(): IterableIterator<[number, string]> {
-    for (let i = 0; i < this.terms.length; i++) yield [i, this.terms[i]!];
+    for (let i = 0; i < this.count; i++) yield [i, this.term(i)];
   }
+
+  /** Interns the UTF-8 bytes bytes[start, end) (which must be valid UTF-8 in the encoding above). */
+  internBytes(bytes: Uint8Array, start: number, end: number): number {
+    const hash = hashBytes(bytes, start, end);
+    const found = this.lookup(bytes, start, end, hash);
+    if (found >= 0) return found;
+    return this.add(bytes, start, end, hash);
+  }
+
+  /** Id of bytes[start, end) or -1. */
+  private lookup(bytes: Uint8Array, start: number, end: number, hash: number): number {
+    const length = end - start;
+    for (let slot = hash & this.mask; ; slot = (slot + 1) & this.mask) {
+      const entry = this.slots[slot]!;
+      if (entry === 0) return -1;
+      if (this.hashes[slot] !== hash) continue;
+      const id = entry - 1, s = this.starts[id]!;
+      if (this.end(id) - s !== length) continue;
+      let i = 0;
+      while (i < length && this.arena[s + i] === bytes[start + i]) i++;
+      if (i === length) return id;
+    }
+  }
+
+  private add(bytes: Uint8Array, start: number, end: number, hash: number): number {
+    const length = end - start;
+    if (this.arenaLength + length > this.arena.length) {
+      const next = Buffer.allocUnsafe(Math.max(this.arena.length * 2, this.arenaLength + length));
+      this.arena.copy(next, 0, 0, this.arenaLength);
+      this.arena = next;
+    }
+    // Copy first: `bytes` may be the scratch buffer or an input chunk that is reused.
+    if (bytes instanceof Buffer) bytes.copy(this.arena, this.arenaLength, start, end);
+    else this.arena.set(bytes.subarray(start, end), this.arenaLength);
+    if (this.count + 2 > this.starts.length) {
+      const next = new Int32Array(this.starts.length * 2);
+      next.set(this.starts);
+      this.starts = next;
+    }
+    const id = this.count++;
+    this.starts[id] = this.arenaLength;
+    this.arenaLength += length;
+    this.starts[id + 1] = this.arenaLength;
+    if (this.count * 2 > this.mask + 1) this.rehash();
+    this.place(id, hash);
+    return id;
+  }
+
+  private place(id: number, hash: number): void {
+    let slot = hash & this.mask;
+    while (this.slots[slot] !== 0) slot = (slot + 1) & this.mask;
+    this.slots[slot] = id + 1;
+    this.hashes[slot] = hash;
+  }
+
+  private rehash(): void {
+    const size = (this.mask + 1) * 2;
+    const oldSlots = this.slots, oldHashes = this.hashes;
+    this.slots = new Int32Array(size);
+    this.hashes = new Int32Array(size);
+    this.mask = size - 1;
+    for (let i = 0; i < oldSlots.length; i++) {
+      const entry = oldSlots[i]!;
+      if (entry !== 0) this.place(entry - 1, oldHashes[i]!);
+    }
+  }
+
+  private end(id: number): number {
+    return id + 1 < this.count ? this.starts[id + 1]! : this.arenaLength;
+  }
+
+  /** Writes the UTF-8 of a string into the scratch buffer; returns its length. */
+  private encode(term: string): number {
+    if (term.length * 3 > this.scratch.length) this.scratch = Buffer.allocUnsafe(term.length * 3 + 16);
+    return this.scratch.write(term, 0, 'utf8');
+  }
+}
+
+/** FNV-1a, 32 bits, over bytes[start, end). */
+export function hashBytes(bytes: Uint8Array, start: number, end: number): number {
+  let h = 0x811c9dc5 | 0;
+  for (let i = start; i < end; i++) h = Math.imul(h ^ bytes[i]!, 0x01000193);
+  return h;
 }
 
 /** Kind of an encoded term, by its first character (see the encoding above). */

@@ -45,7 +45,8 @@ export class Normaliser {
   readonly assertions: NormalAssertion[] = [];
   readonly dataAssertions: { subject: string; property: string; literal: string; source: SourceRef }[] = [];
   private fresh = 0;
-  private topEmitted = false;
+  /** ⊤ ⊑ FRESH_TOP, once some axiom needed FRESH_TOP (kept apart so any subset of axioms can be assembled). */
+  topDefinition: NormalAxiom | null = null;
   private source!: SourceRef;
 
   constructor(private readonly options: NormaliseOptions = {}) {}
@@ -63,10 +64,7 @@ export class Normaliser {
   }
 
   private top(): string {
-    if (!this.topEmitted) {
-      this.topEmitted = true;
-      this.axioms.push({ kind: 'subsumption', body: [], head: [FRESH_TOP], source: this.source });
-    }
+    this.topDefinition ??= { kind: 'subsumption', body: [], head: [FRESH_TOP], source: this.source };
     return FRESH_TOP;
   }
 
@@ -331,17 +329,36 @@ const invert = (p: PropertyRef): PropertyRef => ({ name: p.name, inverse: !p.inv
 const ref = (p: PropertyRef): PropertyRef => ({ name: p.name, inverse: p.inverse });
 const dedupe = (names: readonly string[]): string[] => (names.length < 2 ? [...names] : [...new Set(names)]);
 
-/** Normal form of the kept axioms, with the user signature (declared or used classes and object properties). */
-export function normaliseAxioms(all: readonly Axiom[], kept: readonly Axiom[], options: NormaliseOptions = {}): NormalOntology {
-  const n = new Normaliser(options);
-  for (const a of kept) n.add(a);
+/** Where one source axiom's output lies in a Normaliser's arrays: [start, end) of axioms, assertions, data assertions. */
+export type Slice = readonly [number, number, number, number, number, number];
+
+/** Normalises one axiom and returns its slice. */
+export function addWithSlice(n: Normaliser, a: Axiom): Slice {
+  const s0 = n.axioms.length, a0 = n.assertions.length, d0 = n.dataAssertions.length;
+  n.add(a);
+  return [s0, n.axioms.length, a0, n.assertions.length, d0, n.dataAssertions.length];
+}
+
+/**
+ * Builds the NormalOntology from slices of one Normaliser (the profile check normalises each axiom once;
+ * normalising the kept axioms then only gathers their slices), with the user signature.
+ */
+export function assemble(all: readonly Axiom[], n: Normaliser, slices: readonly Slice[]): NormalOntology {
+  const axioms: NormalAxiom[] = [], assertions: NormalAssertion[] = [], dataAssertions: Normaliser['dataAssertions'] = [];
+  for (const [s0, s1, a0, a1, d0, d1] of slices) {
+    for (let i = s0; i < s1; i++) axioms.push(n.axioms[i]!);
+    for (let i = a0; i < a1; i++) assertions.push(n.assertions[i]!);
+    for (let i = d0; i < d1; i++) dataAssertions.push(n.dataAssertions[i]!);
+  }
+  const usesTop = n.topDefinition !== null && axioms.some((x) => x.kind !== 'subsumption' && x.kind !== 'propertyInclusion' && x.kind !== 'propertyDisjointness' && x.sub === FRESH_TOP);
+  if (usesTop) axioms.unshift(n.topDefinition!);
   const classes = new Set<string>(), properties = new Set<string>();
   const addClass = (c: string) => { if (!isFreshName(c) && c !== OWL_THING && c !== OWL_NOTHING) classes.add(c); };
   for (const a of all) {
     if (a.kind === 'Declaration' && a.entity === 'Class') addClass(a.iri);
     if (a.kind === 'Declaration' && a.entity === 'ObjectProperty') properties.add(a.iri);
   }
-  for (const x of n.axioms) {
+  for (const x of axioms) {
     switch (x.kind) {
       case 'subsumption': x.body.forEach(addClass); x.head.forEach(addClass); break;
       case 'propertyInclusion': properties.add(x.sub.name); properties.add(x.sup.name); break;
@@ -351,9 +368,15 @@ export function normaliseAxioms(all: readonly Axiom[], kept: readonly Axiom[], o
         properties.add(x.property.name);
     }
   }
-  for (const a of n.assertions) {
+  for (const a of assertions) {
     if (a.kind === 'classAssertion') addClass(a.cls);
     if (a.kind === 'propertyAssertion') properties.add(a.property);
   }
-  return { axioms: n.axioms, classes: [...classes], properties: [...properties], assertions: n.assertions, dataAssertions: n.dataAssertions };
+  return { axioms, classes: [...classes], properties: [...properties], assertions, dataAssertions };
+}
+
+/** Normal form of the kept axioms, with the user signature (declared or used classes and object properties). */
+export function normaliseAxioms(all: readonly Axiom[], kept: readonly Axiom[], options: NormaliseOptions = {}): NormalOntology {
+  const n = new Normaliser(options);
+  return assemble(all, n, kept.map((a) => addWithSlice(n, a)));
 }

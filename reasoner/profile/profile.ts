@@ -4,7 +4,7 @@ import type { AxiomClass, Diagnostic, ProfileEntry, ProfileMode, ProfileReport }
 import type { Axiom, ClassExpression, Ontology, PropertyRef } from '../model/axioms.js';
 import { NON_LOGICAL_KINDS, formatPosition } from '../model/axioms.js';
 import { OWL_BOTTOM_OBJECT_PROPERTY, OWL_TOP_OBJECT_PROPERTY } from '../model/vocabulary.js';
-import { Normaliser } from '../normal/normalise.js';
+import { Normaliser, addWithSlice, type Slice } from '../normal/normalise.js';
 import { OfnWriter, IriShortener } from '../syntax/ofn-writer.js';
 
 /**
@@ -57,6 +57,8 @@ function propertyReasons(p: PropertyRef, out: Set<string>): void {
 
 /** Reasons why an axiom is outside ALCHIQ (empty when inside). */
 export function outsideReasons(a: Axiom): string[] {
+  // Common axioms with class names only need no walk at all.
+  if (a.kind === 'SubClassOf' && a.sub.kind === 'class' && a.sup.kind === 'class') return [];
   const out = new Set<string>();
   const ces = (cs: readonly ClassExpression[]) => cs.forEach((c) => expressionReasons(c, out));
   switch (a.kind) {
@@ -85,21 +87,36 @@ export function outsideReasons(a: Axiom): string[] {
   return [...out];
 }
 
-/** Horn-ALCHIQ or ALCHIQ, decided on the axiom's own normal form; with the non-Horn reasons. */
+/** Horn-ALCHIQ or ALCHIQ, decided on the axiom's own normal form (slice of a Normaliser's output); with the non-Horn reasons. */
+function hornOf(n: Normaliser, slice: Slice): { classification: AxiomClass; reasons: string[] } {
+  let disjunction = false, atMost = false;
+  for (let i = slice[0]; i < slice[1]; i++) {
+    const x = n.axioms[i]!;
+    if (x.kind === 'subsumption' && x.head.length > 1) disjunction = true;
+    else if (x.kind === 'atMost' && x.n > 1) atMost = true;
+  }
+  if (!disjunction && !atMost) return { classification: 'horn', reasons: [] };
+  const reasons: string[] = [];
+  if (disjunction) reasons.push(REASONS.disjunction);
+  if (atMost) reasons.push(REASONS.atMost);
+  return { classification: 'alchiq', reasons };
+}
+
+/** Horn-ALCHIQ or ALCHIQ for one axiom on its own. */
 export function hornClassification(a: Axiom): { classification: AxiomClass; reasons: string[] } {
   const n = new Normaliser();
-  n.add(a);
-  const reasons = new Set<string>();
-  for (const x of n.axioms) {
-    if (x.kind === 'subsumption' && x.head.length > 1) reasons.add(REASONS.disjunction);
-    if (x.kind === 'atMost' && x.n > 1) reasons.add(REASONS.atMost);
-  }
-  return { classification: reasons.size ? 'alchiq' : 'horn', reasons: [...reasons] };
+  return hornOf(n, addWithSlice(n, a));
 }
 
 export interface ProfileResultWithKept extends ProfileReport {
   readonly kept: readonly Axiom[];
 }
+
+/**
+ * The normal form computed while classifying, kept per ontology so that normalising the kept axioms
+ * afterwards only gathers slices (each axiom is normalised once in parse → profile → normalise).
+ */
+export const normalFormCache = new WeakMap<Ontology, { normaliser: Normaliser; slices: Map<number, Slice> }>();
 
 /** Classifies every logical axiom of the ontology; decides what is kept under the mode. */
 export function checkProfile(ontology: Ontology, mode: ProfileMode = 'strict'): ProfileResultWithKept {
@@ -107,16 +124,25 @@ export function checkProfile(ontology: Ontology, mode: ProfileMode = 'strict'): 
   const entries: ProfileEntry[] = [];
   const kept: Axiom[] = [];
   const counts = { horn: 0, alchiq: 0, outside: 0, annotations: 0 };
+  const normaliser = new Normaliser();
+  const slices = new Map<number, Slice>();
   let dataAssertions = 0;
   for (const a of ontology.axioms) {
     if (NON_LOGICAL_KINDS.has(a.kind)) { counts.annotations++; continue; }
     if (a.kind === 'DataPropertyAssertion') dataAssertions++;
     const outside = outsideReasons(a);
-    const { classification, reasons } = outside.length ? { classification: 'outside' as const, reasons: outside } : hornClassification(a);
-    counts[classification]++;
-    entries.push({ axiomId: a.id, position: formatPosition(a.position), text: writer.axiom(a, false), classification, reasons });
-    if (classification !== 'outside') kept.push(a);
+    let verdict: { classification: AxiomClass; reasons: string[] };
+    if (outside.length) verdict = { classification: 'outside', reasons: outside };
+    else {
+      const slice = addWithSlice(normaliser, a);
+      slices.set(a.id, slice);
+      verdict = hornOf(normaliser, slice);
+    }
+    counts[verdict.classification]++;
+    entries.push({ axiomId: a.id, position: formatPosition(a.position), text: writer.axiom(a, false), classification: verdict.classification, reasons: verdict.reasons });
+    if (verdict.classification !== 'outside') kept.push(a);
   }
+  normalFormCache.set(ontology, { normaliser, slices });
   const outsideEntries = entries.filter((e) => e.classification === 'outside');
   const warnings: string[] = [];
   const refused = mode === 'strict' && outsideEntries.length > 0;

@@ -8,7 +8,7 @@ import { parse as parseCsv } from 'csv-parse';
 import type { CsvMapping, DatasetFormat } from '../api.js';
 import type { Abox } from '../model/abox.js';
 import type { TermDictionary } from '../model/dictionary.js';
-import { OWL_DIFFERENT_FROM, OWL_NAMED_INDIVIDUAL, OWL_SAME_AS, RDF_TYPE, isReservedIri } from '../model/vocabulary.js';
+import { OWL_DIFFERENT_FROM, OWL_NAMED_INDIVIDUAL, OWL_SAME_AS, OWL_THING, RDF_TYPE, isReservedIri } from '../model/vocabulary.js';
 import { BLANK, IRI, LITERAL, LineError, NTriplesReader } from './ntriples-reader.js';
 import { fromRdfJs } from './rdf-graph.js';
 
@@ -42,36 +42,65 @@ export const emptyCounts = (): IntakeCounts => ({ triples: 0, classAssertions: 0
 /** Maps one triple to an ABox row (class, property, sameAs, differentFrom or data fact). */
 export class AboxBuilder {
   readonly counts = emptyCounts();
-  private readonly typeId: number;
+  /** Predicate id → 1 rdf:type, 2 owl:sameAs, 3 owl:differentFrom, 4 other reserved vocabulary, 5 user property. */
+  private readonly predicates = new Map<number, number>();
+  /** Class id (object of rdf:type) → 1 owl:NamedIndividual, 2 reserved vocabulary (schema), 3 user class. */
+  private readonly classes = new Map<number, number>();
 
-  constructor(readonly dictionary: TermDictionary, readonly abox: Abox) {
-    this.typeId = dictionary.intern(RDF_TYPE);
+  constructor(readonly dictionary: TermDictionary, readonly abox: Abox) {}
+
+  private predicateKind(p: number): number {
+    let k = this.predicates.get(p);
+    if (k === undefined) {
+      const iri = this.dictionary.term(p);
+      k = iri === RDF_TYPE ? 1 : iri === OWL_SAME_AS ? 2 : iri === OWL_DIFFERENT_FROM ? 3 : isReservedIri(iri) ? 4 : 5;
+      this.predicates.set(p, k);
+    }
+    return k;
   }
 
-  /** Bound handler for the readers. */
-  readonly triple = (s: string, p: string, o: string, kind: number): void => {
-    const c = this.counts, d = this.dictionary;
+  private classKind(c: number): number {
+    let k = this.classes.get(c);
+    if (k === undefined) {
+      const iri = this.dictionary.term(c);
+      k = iri === OWL_NAMED_INDIVIDUAL ? 1 : isReservedIri(iri) && iri !== OWL_THING ? 2 : 3;
+      this.classes.set(c, k);
+    }
+    return k;
+  }
+
+  /** Handler over term ids (the N-Triples reader's). */
+  readonly ids = (s: number, p: number, o: number, kind: number): void => {
+    const c = this.counts;
     c.triples++;
+    const pk = this.predicateKind(p);
     if (kind === LITERAL) {
       // Literal-valued triples (data properties, and annotations such as rdfs:label) are stored as facts.
-      if (p === RDF_TYPE) { c.schemaTriples++; return; }
+      if (pk === 1) { c.schemaTriples++; return; }
       c.dataFacts++;
-      this.abox.addData(d.intern(s), d.intern(p), d.intern(o));
+      this.abox.addData(s, p, o);
       return;
     }
-    const pid = d.intern(p);
-    if (pid === this.typeId) {
-      if (o === OWL_NAMED_INDIVIDUAL) { c.declarations++; d.intern(s); return; }
-      if (kind === IRI && isReservedIri(o) && !o.endsWith('#Thing')) { c.schemaTriples++; return; }
-      c.classAssertions++;
-      this.abox.addClass(d.intern(o), d.intern(s));
-      return;
+    switch (pk) {
+      case 5: c.propertyAssertions++; this.abox.addProperty(p, s, o); return;
+      case 1: {
+        const ck = kind === IRI ? this.classKind(o) : 3;
+        if (ck === 1) { c.declarations++; return; }
+        if (ck === 2) { c.schemaTriples++; return; }
+        c.classAssertions++;
+        this.abox.addClass(o, s);
+        return;
+      }
+      case 2: c.sameAs++; this.abox.addSame(s, o); return;
+      case 3: c.differentFrom++; this.abox.addDifferent(s, o); return;
+      default: c.schemaTriples++;
     }
-    if (p === OWL_SAME_AS) { c.sameAs++; this.abox.addSame(d.intern(s), d.intern(o)); return; }
-    if (p === OWL_DIFFERENT_FROM) { c.differentFrom++; this.abox.addDifferent(d.intern(s), d.intern(o)); return; }
-    if (isReservedIri(p)) { c.schemaTriples++; return; }
-    c.propertyAssertions++;
-    this.abox.addProperty(pid, d.intern(s), d.intern(o));
+  };
+
+  /** Handler over strings (the Turtle reader's). */
+  readonly triple = (s: string, p: string, o: string, kind: number): void => {
+    const d = this.dictionary;
+    this.ids(d.intern(s), d.intern(p), d.intern(o), kind);
   };
 }
 
@@ -99,7 +128,7 @@ async function streamBytes(path: string, opts: ReadOptions, onChunk: (chunk: Buf
 
 /** N-Triples with the byte-level reader (ntriples-reader.ts). */
 export async function readNTriples(path: string, builder: AboxBuilder, opts: ReadOptions = {}): Promise<void> {
-  const reader = new NTriplesReader(builder.triple, { maxLineBytes: opts.maxLineBytes, blankPrefix: opts.blankPrefix });
+  const reader = new NTriplesReader(builder.dictionary, builder.ids, { maxLineBytes: opts.maxLineBytes, blankPrefix: opts.blankPrefix });
   await streamBytes(path, opts, (chunk) => reader.push(chunk));
   reader.end();
 }

@@ -3,12 +3,13 @@
 import { isUtf8 } from 'node:buffer';
 import { escapeLexical } from './terms.js';
 import { XSD_STRING } from '../model/vocabulary.js';
+import type { TermDictionary } from '../model/dictionary.js';
 
 /** Object kinds passed to the handler. */
 export const IRI = 0, BLANK = 1, LITERAL = 2;
 
-/** Receives each triple: subject and predicate as dictionary terms, object as a term of the given kind. */
-export type TripleHandler = (subject: string, predicate: string, object: string, objectKind: number) => void;
+/** Receives each triple as term ids of the reader's dictionary, with the object's kind. */
+export type TripleHandler = (subject: number, predicate: number, object: number, objectKind: number) => void;
 
 /** A syntax error at a line and column (1-based; the column counts characters). */
 export class LineError extends Error {
@@ -33,8 +34,15 @@ for (const c of '<>"{}|^`\\') IRI_STOP[c.charCodeAt(0)] = 1;
 const LABEL = new Uint8Array(256);
 for (let c = 0; c < 256; c++) LABEL[c] = /[A-Za-z0-9_\-.]/.test(String.fromCharCode(c)) || c >= 0x80 ? 1 : 0;
 const XSD_STRING_SUFFIX = '^^<' + XSD_STRING + '>';
+// scheme characters after the first: ALPHA / DIGIT / "+" / "-" / "."
+const SCHEME = new Uint8Array(256);
+for (let c = 0; c < 256; c++) SCHEME[c] = /[A-Za-z0-9+.\-]/.test(String.fromCharCode(c)) ? 1 : 0;
 
-/** Push-style reader: `push(chunk)` as bytes arrive, `end()` at the end; calls the handler per triple. */
+/**
+ * Push-style reader: `push(chunk)` as bytes arrive, `end()` at the end; calls the handler per triple with ids.
+ * Terms already in canonical form (the common case) are interned straight from the chunk's bytes
+ * (TermDictionary.internBytes), so repeated terms never become strings.
+ */
 export class NTriplesReader {
   private carry: Buffer | null = null;
   private line = 0;
@@ -45,10 +53,13 @@ export class NTriplesReader {
   private buf!: Buffer;
   private pos = 0;
   private lineStart = 0;
+  private readonly blankHead: Buffer;
+  private scratch = Buffer.allocUnsafe(1024);
 
-  constructor(private readonly handler: TripleHandler, options: NTriplesOptions = {}) {
+  constructor(private readonly dictionary: TermDictionary, private readonly handler: TripleHandler, options: NTriplesOptions = {}) {
     this.maxLine = options.maxLineBytes ?? 16 * 1024 * 1024;
     this.blankPrefix = options.blankPrefix ?? '';
+    this.blankHead = Buffer.from('_:' + this.blankPrefix, 'utf8');
   }
 
   /** Reads every complete line of the chunk; keeps the incomplete tail for the next chunk. */
@@ -124,7 +135,7 @@ export class NTriplesReader {
     this.pos = this.lineStart = start;
     this.skipSpace(end);
     if (this.pos >= end || b[this.pos] === 0x23 /* # */) return;
-    let subject: string;
+    let subject: number;
     if (b[this.pos] === 0x3c) subject = this.iri(end);
     else if (b[this.pos] === 0x5f && b[this.pos + 1] === 0x3a) subject = this.blank(end);
     else return this.error('expected a subject: an IRI in angle brackets or a blank node "_:label"');
@@ -132,7 +143,7 @@ export class NTriplesReader {
     if (b[this.pos] !== 0x3c) return this.error('expected a predicate: an IRI in angle brackets');
     const predicate = this.iri(end);
     this.skipSpace(end);
-    let object: string, kind: number;
+    let object: number, kind: number;
     const c = b[this.pos];
     if (c === 0x3c) { object = this.iri(end); kind = IRI; }
     else if (c === 0x5f && b[this.pos + 1] === 0x3a) { object = this.blank(end); kind = BLANK; }
@@ -147,8 +158,8 @@ export class NTriplesReader {
     this.handler(subject, predicate, object, kind);
   }
 
-  /** IRIREF: returns the IRI (UCHAR escapes decoded); pos ends after ">". */
-  private iri(end: number): string {
+  /** IRIREF: returns the IRI's id (UCHAR escapes decoded); pos ends after ">". */
+  private iri(end: number): number {
     const b = this.buf, start = ++this.pos;
     let escaped = false;
     while (this.pos < end) {
@@ -161,10 +172,23 @@ export class NTriplesReader {
       this.pos++;
     }
     if (this.pos >= end) return this.error('unterminated IRI: expected ">"', start - 1);
-    const text = b.toString('utf8', start, this.pos++);
-    if (start === this.pos - 1) return this.error('empty IRI <>: relative IRIs are not allowed in N-Triples', start - 1);
-    if (!/^[A-Za-z][A-Za-z0-9+.\-]*:/.test(text) && !escaped) return this.error('relative IRI: N-Triples needs absolute IRIs', start - 1);
-    return escaped ? this.unescapeIri(text, start - 1) : text;
+    const stop = this.pos++;
+    if (start === stop) return this.error('empty IRI <>: relative IRIs are not allowed in N-Triples', start - 1);
+    if (escaped) return this.dictionary.intern(this.unescapeIri(b.toString('utf8', start, stop), start - 1));
+    // scheme ":" — an absolute IRI (RFC 3987 §2.2): ALPHA *( ALPHA / DIGIT / "+" / "-" / "." ) ":"
+    let i = start;
+    if (((b[i]! | 0x20) >= 0x61 && (b[i]! | 0x20) <= 0x7a)) {
+      i++;
+      while (i < stop && (SCHEME[b[i]!] === 1)) i++;
+    }
+    if (i === start || i >= stop || b[i] !== 0x3a) return this.error('relative IRI: N-Triples needs absolute IRIs', start - 1);
+    return this.dictionary.internBytes(b, start, stop);
+  }
+
+  /** The value of an IRIREF as a string (for datatypes). */
+  private iriText(end: number): string {
+    const id = this.iri(end);
+    return this.dictionary.term(id);
   }
 
   private unescapeIri(text: string, at: number): string {
@@ -181,18 +205,23 @@ export class NTriplesReader {
   }
 
   /** BLANK_NODE_LABEL: `_:` label, with the reader's prefix; trailing dots belong to the statement. */
-  private blank(end: number): string {
+  private blank(end: number): number {
     const b = this.buf, start = this.pos + 2;
     let p = start;
     while (p < end && LABEL[b[p]!]) p++;
     while (p > start && b[p - 1] === 0x2e) p--;
     if (p === start) return this.error('expected a blank node label after "_:"');
     this.pos = p;
-    return '_:' + this.blankPrefix + b.toString('utf8', start, p);
+    // `_:` + the file's prefix + the label, assembled in a scratch buffer.
+    const head = this.blankHead.length, n = head + p - start;
+    if (n > this.scratch.length) this.scratch = Buffer.allocUnsafe(n * 2);
+    this.blankHead.copy(this.scratch, 0);
+    b.copy(this.scratch, head, start, p);
+    return this.dictionary.internBytes(this.scratch, 0, n);
   }
 
   /** STRING_LITERAL_QUOTE with optional LANGTAG or ^^IRIREF; returns the canonical N-Triples literal (see syntax/terms.ts). */
-  private literal(end: number): string {
+  private literal(end: number): number {
     const b = this.buf, start = this.pos;
     let p = start + 1, escaped = false;
     while (p < end) {
@@ -208,24 +237,30 @@ export class NTriplesReader {
       const langStart = p + 1;
       p = langStart;
       while (p < end && ((b[p]! | 0x20) >= 0x61 && (b[p]! | 0x20) <= 0x7a || b[p] === 0x2d || (b[p]! >= 0x30 && b[p]! <= 0x39))) p++;
-      const lang = b.toString('latin1', langStart, p);
-      if (!/^[a-zA-Z]+(-[a-zA-Z0-9]+)*$/.test(lang)) return this.error('invalid language tag', langStart - 1);
-      if (lang !== lang.toLowerCase()) canonical = false;
-      suffix = '@' + lang.toLowerCase();
+      let upper = false;
+      for (let i = langStart; i < p; i++) if (b[i]! >= 0x41 && b[i]! <= 0x5a) upper = true;
+      if (upper || !canonical) {
+        const lang = b.toString('latin1', langStart, p);
+        if (!/^[a-zA-Z]+(-[a-zA-Z0-9]+)*$/.test(lang)) return this.error('invalid language tag', langStart - 1);
+        canonical = false;
+        suffix = '@' + lang.toLowerCase();
+      } else if (p === langStart || b[langStart] === 0x2d || b[p - 1] === 0x2d) {
+        return this.error('invalid language tag', langStart - 1);
+      }
     } else if (b[p] === 0x5e && b[p + 1] === 0x5e) {
       this.pos = p + 2;
       if (b[this.pos] !== 0x3c) return this.error('expected a datatype IRI after "^^"');
-      const datatype = this.iri(end);
+      const datatype = this.iriText(end);
       p = this.pos;
       if (datatype === XSD_STRING) canonical = false;   // "a"^^xsd:string is written "a"
       else suffix = '^^<' + datatype + '>';
     }
     this.pos = p;
     // The common case: the text as written is already canonical, so take it in one flat string.
-    if (canonical) return b.toString('utf8', start, p);
+    if (canonical) return this.dictionary.internBytes(b, start, p);
     const raw = b.toString('utf8', start + 1, close);
     const lexical = escaped ? this.unescapeLiteral(raw, start) : raw;
-    return '"' + escapeLexical(lexical) + '"' + (suffix === XSD_STRING_SUFFIX ? '' : suffix);
+    return this.dictionary.intern('"' + escapeLexical(lexical) + '"' + (suffix === XSD_STRING_SUFFIX ? '' : suffix));
   }
 
   /** ECHAR and UCHAR (§7). */

@@ -122,7 +122,8 @@ class OfnParser {
     const ns = this.prefixes[t.value.slice(0, colon + 1)];
     if (ns === undefined) throw new SyntaxError(`undeclared prefix "${t.value.slice(0, colon + 1)}"`, t.line, t.column);
     // PN_LOCAL_ESC: a backslash escapes a reserved character.
-    return ns + t.value.slice(colon + 1).replace(/\\(.)/g, '$1');
+    const local = t.value.slice(colon + 1);
+    return ns + (local.includes('\\') ? local.replace(/\\(.)/g, '$1') : local);
   }
 
   /** Individual := NamedIndividual | AnonymousIndividual   (§5.6) */

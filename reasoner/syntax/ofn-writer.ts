@@ -12,8 +12,19 @@ export class IriShortener {
     this.entries = Object.entries(all).sort((a, b) => b[1].length - a[1].length);
   }
 
-  /** Returns `prefix:local` when a prefix fits, else `<iri>`. */
+  private readonly cache = new Map<string, string>();
+
+  /** Returns `prefix:local` when a prefix fits, else `<iri>` (memoised: IRIs repeat). */
   shorten(iri: string): string {
+    let short = this.cache.get(iri);
+    if (short === undefined) {
+      short = this.compute(iri);
+      if (this.cache.size < 1 << 20) this.cache.set(iri, short);
+    }
+    return short;
+  }
+
+  private compute(iri: string): string {
     for (const [prefix, ns] of this.entries) {
       if (iri.startsWith(ns)) {
         const local = iri.slice(ns.length);

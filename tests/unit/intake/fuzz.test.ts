@@ -49,7 +49,7 @@ describe('ontology parsers under mutation and random input', () => {
   for (const [format, seed] of seeds) {
     it(`${format}: mutated fixture gives success or InputError, never a crash`, async () => {
       await fc.assert(fc.asyncProperty(fc.array(mutation(seed.length), { minLength: 1, maxLength: 4 }), async (ms) => {
-        let input = seed;
+        let input: Buffer = seed;
         for (const m of ms) input = mutate(input, m as never);
         const t0 = Date.now();
         await outcome(input, format);
@@ -95,7 +95,7 @@ describe('N-Triples dataset reader under mutation', () => {
       const base = Buffer.from(Array.from({ length: 40 }, (_, i) => `<http://e/s${i}> <http://e/p> ${i % 3 ? `<http://e/o${i}>` : `"v${i}\\n"@en`} .`).join('\n') + '\n');
       let n = 0;
       await fc.assert(fc.asyncProperty(fc.array(mutation(base.length), { minLength: 1, maxLength: 3 }), async (ms) => {
-        let input = base;
+        let input: Buffer = base;
         for (const m of ms) input = mutate(input, m as never);
         const path = join(dir, `m${n++}.nt`);
         writeFileSync(path, input);

@@ -154,7 +154,9 @@ describe('normal form agrees with the semantics on finite models (Description Lo
   });
 
   it('FRESH_TOP is defined once and only when needed', () => {
-    const { axioms } = normaliseTraced({ kind: 'class', name: THING }, { kind: 'some', property: { name: EX + 'r', inverse: false }, filler: { kind: 'class', name: EX + 'A' } });
+    const r: ClassExpression = { kind: 'some', property: { name: EX + 'r', inverse: false }, filler: { kind: 'class', name: EX + 'A' } };
+    const { axioms } = normaliseAxioms([], [subClassOf({ kind: 'class', name: THING }, r, 0), subClassOf({ kind: 'class', name: THING }, r, 1)]);
     expect(axioms.filter((a) => a.kind === 'subsumption' && a.head.includes(FRESH_TOP))).toHaveLength(1);
+    expect(normaliseAxioms([], [subClassOf({ kind: 'class', name: EX + 'B' }, r)]).axioms.some((a) => a.kind === 'subsumption' && a.head.includes(FRESH_TOP))).toBe(false);
   });
 });

@@ -35,7 +35,7 @@ describe('functional-style syntax: W3C examples', () => {
     expect(chain.position.line).toBe(17);
     const key = o.axioms.find((a) => a.kind === 'HasKey') as Extract<Axiom, { kind: 'HasKey' }>;
     expect(key.dataProperties).toEqual(['http://example.org/family#hasSSN']);
-    const age = o.axioms.find((a) => a.kind === 'DataPropertyAssertion') as Extract<Axiom, { kind: 'DataPropertyAssertion' }>;
+    const age = o.axioms.find((a) => a.kind === 'DataPropertyAssertion') as Extract<Axiom, { kind: 'DataPropertyAssertion' | 'NegativeDataPropertyAssertion' }>;
     expect(age.value).toEqual({ lexical: '17', datatype: 'http://www.w3.org/2001/XMLSchema#integer' });
   });
 

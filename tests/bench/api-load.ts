@@ -1,0 +1,134 @@
+// Load benchmark of /api/v1 (autocannon on loopback, time-bounded): fact lookups (all three positions bound) and
+// pattern queries (one or two bound, LIMIT 10) with 32 connections, authentication, rate limiting and metering on;
+// throughput, p50 and p99; then the same lookups sent straight to PostgreSQL by this harness (32 concurrent clients)
+// as the reference, and the ratio. Finally checks that the usage counters equal the requests served.
+// Targets (issue 6): ≥ 3,000 req/s, p99 ≤ 25 ms, ratio ≥ 0.5. Figures are printed, not asserted.
+// Run: eval "$(bash server/scripts/dev-env.sh)" && npx tsx tests/bench/api-load.ts [seconds per run, default 10]
+import autocannon from 'autocannon';
+import { spawn } from 'node:child_process';
+import net from 'node:net';
+import pg from 'pg';
+import { createContext, closeContext } from '../../server/bootstrap.js';
+import { createTestUser } from '../support/app.js';
+import { publishedListing, subscriberWithKey, type FactRow } from '../support/market.js';
+import { factsTable, termsTable } from '../../server/services/factStore.js';
+
+const SECONDS = Number(process.argv[2] ?? 10);
+const CONNECTIONS = 32;
+const RDF_TYPE = 'http://www.w3.org/1999/02/22-rdf-syntax-ns#type';
+const EX = 'http://thence.test/bench#';
+const SUBJECTS = 5_000;
+
+// Invented benchmark data: 5,000 vessels, each typed twice and berthed at one of 50 quays (15,000 facts).
+function benchFacts(): FactRow[] {
+  const rows: FactRow[] = [];
+  for (let i = 0; i < SUBJECTS; i++) {
+    rows.push([`${EX}v${i}`, RDF_TYPE, `${EX}Vessel`, true], [`${EX}v${i}`, RDF_TYPE, `${EX}Craft`, false], [`${EX}v${i}`, `${EX}berthedAt`, `${EX}q${i % 50}`, true]);
+  }
+  return rows;
+}
+
+const pick = () => Math.floor(Math.random() * SUBJECTS);
+const lookupPath = (slug: string) => {
+  const i = pick();
+  return `/api/v1/kbs/${slug}/facts?subject=${encodeURIComponent(`${EX}v${i}`)}&predicate=${encodeURIComponent(RDF_TYPE)}&object=${encodeURIComponent(`${EX}Craft`)}`;
+};
+const patternPath = (slug: string) => {
+  const i = pick();
+  return i % 2
+    ? `/api/v1/kbs/${slug}/facts?subject=${encodeURIComponent(`${EX}v${i}`)}&limit=10`
+    : `/api/v1/kbs/${slug}/facts?predicate=${encodeURIComponent(`${EX}berthedAt`)}&object=${encodeURIComponent(`${EX}q${i % 50}`)}&limit=10`;
+};
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const port = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+async function runHttp(url: string, auth: string, path: (slug: string) => string, slug: string) {
+  const result = await autocannon({
+    url,
+    connections: CONNECTIONS,
+    duration: SECONDS,
+    headers: { authorization: auth },
+    requests: [{ method: 'GET', setupRequest: (req) => ({ ...req, path: path(slug) }) }],
+  });
+  return { rps: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, total: result.requests.total, ok: result['2xx'], non2xx: result.non2xx, errors: result.errors + result.timeouts };
+}
+
+/** The same lookups as one SQL each, issued by 32 concurrent loops for the same time. */
+async function runDirect(pool: pg.Pool, storeKey: number, kind: 'lookup' | 'pattern') {
+  const facts = factsTable(storeKey), terms = termsTable(storeKey);
+  const sql = {
+    lookup: `SELECT f.asserted FROM ${facts} f WHERE f.s = (SELECT id FROM ${terms} WHERE term = $1) AND f.p = (SELECT id FROM ${terms} WHERE term = $2) AND f.o = (SELECT id FROM ${terms} WHERE term = $3) LIMIT 1`,
+    pattern: `SELECT ts.term, tp.term, tob.term, f.asserted FROM ${facts} f JOIN ${terms} ts ON ts.id = f.s JOIN ${terms} tp ON tp.id = f.p JOIN ${terms} tob ON tob.id = f.o WHERE f.s = (SELECT id FROM ${terms} WHERE term = $1) ORDER BY f.s, f.p, f.o LIMIT 11`,
+  }[kind];
+  const latencies: number[] = [];
+  const until = Date.now() + SECONDS * 1000;
+  await Promise.all(Array.from({ length: CONNECTIONS }, async () => {
+    while (Date.now() < until) {
+      const i = pick();
+      const t0 = process.hrtime.bigint();
+      await pool.query(sql, kind === 'lookup' ? [`${EX}v${i}`, RDF_TYPE, `${EX}Craft`] : [`${EX}v${i}`]);
+      latencies.push(Number(process.hrtime.bigint() - t0) / 1e6);
+    }
+  }));
+  latencies.sort((a, b) => a - b);
+  const at = (q: number) => latencies[Math.min(latencies.length - 1, Math.floor(q * latencies.length))];
+  return { rps: latencies.length / SECONDS, p50: at(0.5), p99: at(0.99), total: latencies.length };
+}
+
+const ctx = await createContext();
+const publisher = await createTestUser(ctx, { roles: ['publisher'] });
+const listing = await publishedListing(ctx, benchFacts(), { publisher, title: 'Benchmark registry' });
+const k = await subscriberWithKey(ctx, listing, { ratePerMinute: 1_000_000, monthlyQuota: 1_000_000_000 });
+const port = await freePort();
+const server = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production' }, stdio: ['ignore', 'inherit', 'inherit'] });
+const exited = new Promise<number | null>((resolve) => server.on('exit', resolve));
+const url = `http://127.0.0.1:${port}`;
+for (let i = 0; ; i++) {
+  try {
+    if ((await fetch(`${url}/api/v1/openapi.json`)).ok) break;
+  } catch {
+    if (i > 150) throw new Error('server did not start');
+  }
+  await new Promise((r) => setTimeout(r, 200));
+}
+// Warm-up: caches, JIT, connection pool.
+const warm = await autocannon({ url, connections: CONNECTIONS, duration: 2, headers: { authorization: k.auth }, requests: [{ method: 'GET', setupRequest: (req) => ({ ...req, path: lookupPath(listing.slug) }) }] });
+
+const httpLookup = await runHttp(url, k.auth, lookupPath, listing.slug);
+const httpPattern = await runHttp(url, k.auth, patternPath, listing.slug);
+server.kill('SIGTERM');
+await exited;
+
+const direct = new pg.Pool({ connectionString: ctx.config.databaseUrl, max: CONNECTIONS });
+await runDirect(direct, listing.storeKey, 'lookup');
+const pgLookup = await runDirect(direct, listing.storeKey, 'lookup');
+const pgPattern = await runDirect(direct, listing.storeKey, 'pattern');
+await direct.end();
+
+const { rows } = await ctx.pool.query<{ n: string }>(`SELECT coalesce(sum(count), 0) AS n FROM usage_counters WHERE api_key_id = $1`, [k.key.id]);
+const counted = Number(rows[0].n);
+
+const f = (n: number) => n.toFixed(n < 10 ? 2 : 0);
+console.log(`\n/api/v1 load, ${CONNECTIONS} connections, ${SECONDS} s per run (auth + PostgreSQL rate limit + metering on)`);
+console.log('run                    req/s     p50 ms   p99 ms   requests   non-2xx');
+for (const [name, r] of [['HTTP fact lookup', httpLookup], ['HTTP pattern query', httpPattern]] as const) {
+  console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}   ${r.non2xx + r.errors}`);
+}
+for (const [name, r] of [['PostgreSQL lookup', pgLookup], ['PostgreSQL pattern', pgPattern]] as const) {
+  console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}`);
+}
+console.log(`ratio HTTP/PostgreSQL: lookups ${(httpLookup.rps / pgLookup.rps).toFixed(2)}, patterns ${(httpPattern.rps / pgPattern.rps).toFixed(2)}   (target ≥ 0.5)`);
+console.log(`targets: ≥ 3000 req/s → lookups ${httpLookup.rps >= 3000 ? 'met' : 'NOT met'}, patterns ${httpPattern.rps >= 3000 ? 'met' : 'NOT met'}; p99 ≤ 25 ms → lookups ${httpLookup.p99 <= 25 ? 'met' : 'NOT met'}, patterns ${httpPattern.p99 <= 25 ? 'met' : 'NOT met'}`);
+// autocannon stops each run with up to one request per connection still in flight: the server answers (and counts) those too.
+const received = warm.requests.total + httpLookup.total + httpPattern.total;
+const inFlight = 3 * CONNECTIONS;
+const equal = counted >= received && counted <= received + inFlight;
+console.log(`usage counters after graceful stop: ${counted} counted; the load generator received ${received} answers (runs end with ≤ ${inFlight} in flight) → ${equal ? 'counts equal the requests served' : 'MISMATCH'}`);
+await closeContext(ctx);
