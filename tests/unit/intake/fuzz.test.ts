@@ -80,10 +80,13 @@ describe('ontology parsers under mutation and random input', () => {
       const broken = text.slice(0, at) + '\u0007' + text.slice(at);
       const before = text.slice(0, at);
       const line = before.split('\n').length, column = at - before.lastIndexOf('\n');
-      // Inside a keyword ("Obj␇ectInverseOf") the lexer reads "Obj" and the parser rejects that word: the error then
-      // points at the start of the broken word; anywhere else at the character itself.
-      const wordStart = column - (/[A-Za-z]*$/.exec(before)![0].length);
-      expect([`fuzz:${line}:${column}`, `fuzz:${line}:${wordStart}`]).toContain(await outcome(Buffer.from(broken), 'ofn'));
+      // Inside a token ("Obj␇ectInverseOf", "^␇^") the part before is read as a token and rejected: the error then
+      // points at the start of the broken token; elsewhere at the character itself. Never before the token, never after.
+      const tokenStart = column - (/[^\s()]*$/.exec(before)![0].length);
+      const [, l, c] = (await outcome(Buffer.from(broken), 'ofn')).split(':');
+      expect(Number(l)).toBe(line);
+      expect(Number(c)).toBeGreaterThanOrEqual(tokenStart);
+      expect(Number(c)).toBeLessThanOrEqual(column);
     }), { numRuns: 150 });
   });
 });
