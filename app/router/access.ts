@@ -54,19 +54,19 @@ export interface NavEntry {
   label: string;
   path: string;
   order: number;
-  /** The section it is listed under: the first role it needs, or 'public'. */
-  section: Role | 'public';
+  /** The section it is listed under: the first role it needs; 'account' for any signed-in user; else 'public'. */
+  section: Role | 'account' | 'public';
 }
 
 /** Navigation entries the viewer may open, from the routes' meta.nav; sorted by section, then navOrder, then label. */
 export function navigationFor(routes: readonly Pick<RouteRecordNormalized, 'path' | 'meta'>[], viewer: Viewer | null): NavEntry[] {
-  const sectionOrder: (Role | 'public')[] = ['public', 'publisher', 'subscriber', 'admin'];
+  const sectionOrder: NavEntry['section'][] = ['public', 'account', 'publisher', 'subscriber', 'admin'];
   const entries: NavEntry[] = [];
   for (const route of routes) {
     const label = route.meta.nav;
     // Routes with parameters (":id") cannot be opened from a menu.
     if (!label || route.path.includes(':') || !mayOpen(route.meta, viewer)) continue;
-    const section = route.meta.roles?.[0] ?? 'public';
+    const section = route.meta.roles?.[0] ?? (route.meta.auth ? 'account' : 'public');
     entries.push({ label, path: route.path, order: route.meta.navOrder ?? 100, section });
   }
   return entries.sort(
@@ -77,6 +77,7 @@ export function navigationFor(routes: readonly Pick<RouteRecordNormalized, 'path
 /** Section headings in the navigation. */
 export const SECTION_LABELS: Record<NavEntry['section'], string> = {
   public: 'Explore',
+  account: 'Your account',
   publisher: 'Publishing',
   subscriber: 'Subscribing',
   admin: 'Administration',

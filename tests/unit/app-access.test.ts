@@ -92,6 +92,7 @@ describe('navigationFor lists only pages the viewer may open', () => {
     route('/admin/users', { nav: 'Users', roles: ['admin'] }),
     route('/sign-in', { guestOnly: true, nav: 'Sign in' }),
     route('/account', { auth: true }),
+    route('/usage', { auth: true, nav: 'My usage' }),
   ];
   const labels = (roles: Role[] | null) => navigationFor(routes, roles ? { roles } : null).map((entry) => `${entry.section}:${entry.label}`);
 
@@ -100,13 +101,18 @@ describe('navigationFor lists only pages the viewer may open', () => {
   });
 
   it('a subscriber sees the subscriber section in navOrder, and no admin or publisher page', () => {
-    expect(labels(['subscriber'])).toEqual(['public:Home', 'public:Catalogue', 'subscriber:Subscriptions', 'subscriber:API keys']);
+    expect(labels(['subscriber'])).toEqual(['public:Home', 'public:Catalogue', 'account:My usage', 'subscriber:Subscriptions', 'subscriber:API keys']);
+  });
+
+  it('a signed-in user without roles sees the pages for any account, under their own heading', () => {
+    expect(labels([])).toEqual(['public:Home', 'public:Catalogue', 'account:My usage']);
   });
 
   it('a user with every role sees every section, and never a route with parameters', () => {
     expect(labels([...ROLES])).toEqual([
       'public:Home',
       'public:Catalogue',
+      'account:My usage',
       'publisher:My listings',
       'subscriber:Subscriptions',
       'subscriber:API keys',
