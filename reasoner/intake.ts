@@ -204,4 +204,5 @@ export function addAssertionsToAbox(normal: NormalOntology, dictionary: TermDict
       case 'differentIndividuals': abox.addDifferent(dictionary.intern(a.a), dictionary.intern(a.b)); break;
     }
   }
+  for (const d of normal.dataAssertions ?? []) abox.addData(dictionary.intern(d.subject), dictionary.intern(d.property), dictionary.intern(d.literal));
 }

@@ -154,3 +154,12 @@ describe('CSV datasets with a column mapping (api.ts CsvMapping)', () => {
     expect((await errorOf([{ path: file('m.csv', 'id\na\n') }])).message).toBe('a CSV dataset needs a column mapping');
   });
 });
+
+describe('Turtle hostile input', () => {
+  it('refuses a huge literal instead of buffering it without bound', async () => {
+    const path = file('huge.ttl', `@prefix : <http://e/> .\n:a :p "${'x'.repeat(4 << 20)}" .\n`);
+    const e = await loadDatasets([{ path }], new TermDictionary(), new Abox(), { maxLineBytes: 1 << 20 }).catch((x) => x);
+    expect(e).toBeInstanceOf(InputError);
+    expect(e.diagnostics[0].message).toMatch(/longer than 1048576 bytes/);
+  });
+});
