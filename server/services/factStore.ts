@@ -173,7 +173,8 @@ export interface LoadStats {
   perClass: Record<string, PredicateCount>;
   /** Per property IRI (every other predicate). */
   perProperty: Record<string, PredicateCount>;
-  timings: { copyFactsMs: number; copyTermsMs: number; indexMs: number };
+  /** copyFactsMs: first fact to end of COPY (includes the producer's own time between facts); writeMs: time inside write(); endCopyMs: flushing the last rows. */
+  timings: { copyFactsMs: number; writeMs: number; endCopyMs: number; copyTermsMs: number; indexMs: number };
 }
 
 /** Escapes a value for COPY's text format (PostgreSQL docs, COPY, "Text Format": backslash, newline, CR, tab). */
@@ -197,7 +198,10 @@ export class FactLoader {
   private asserted = 0;
   private readonly perClass: Record<string, PredicateCount> = {};
   private readonly perProperty: Record<string, PredicateCount> = {};
-  private startedAt = Date.now();
+  /** Set at the first fact: the COPY time is counted from there, not from open() (reasoning runs in between). */
+  private firstWriteAt = 0;
+  /** Time spent inside write() (dictionary, encoding, handing chunks to the socket): the store's own share of the streaming. */
+  private writeMs = 0;
   private closed = false;
 
   private constructor(private readonly client: pg.PoolClient, readonly storeKey: number) {}
@@ -246,6 +250,16 @@ export class FactLoader {
   /** FactSink.write: returns a promise only when PostgreSQL is behind (stream back-pressure). */
   write(subject: string, predicate: string, object: string, asserted: boolean): void | Promise<void> {
     if (this.streamError) throw this.streamError;
+    const started = performance.now();
+    if (this.firstWriteAt === 0) this.firstWriteAt = Date.now();
+    try {
+      return this.append(subject, predicate, object, asserted);
+    } finally {
+      this.writeMs += performance.now() - started;
+    }
+  }
+
+  private append(subject: string, predicate: string, object: string, asserted: boolean): void | Promise<void> {
     const s = this.id(subject), p = this.id(predicate), o = this.id(object);
     this.buffer += `${s}\t${p}\t${o}\t${asserted ? 't' : 'f'}\n`;
     this.facts++;
@@ -277,9 +291,11 @@ export class FactLoader {
 
   /** Ends the facts COPY, writes the dictionary, builds the indexes and statistics. The transaction stays open. */
   async finish(onStep?: (step: 'terms' | 'indexes', fraction: number) => void): Promise<LoadStats> {
-    await this.endCopy();
-    const copyFactsMs = Date.now() - this.startedAt;
     let t = Date.now();
+    await this.endCopy();
+    const endCopyMs = Date.now() - t;
+    const copyFactsMs = this.firstWriteAt ? Date.now() - this.firstWriteAt : 0;
+    t = Date.now();
     onStep?.('terms', 0);
     this.startCopy(`COPY ${termsTable(this.storeKey)} (id, term) FROM STDIN WITH (FORMAT text, FREEZE true)`);
     for (const [term, id] of this.ids) {
@@ -309,7 +325,7 @@ export class FactLoader {
       terms: this.ids.size,
       perClass: this.perClass,
       perProperty: this.perProperty,
-      timings: { copyFactsMs, copyTermsMs, indexMs: Date.now() - t },
+      timings: { copyFactsMs, writeMs: Math.round(this.writeMs), endCopyMs, copyTermsMs, indexMs: Date.now() - t },
     };
   }
 

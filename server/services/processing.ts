@@ -150,7 +150,7 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     stage = 'store';
     fraction = 0;
     const stats = await loader.finish((step, f) => (fraction = step === 'terms' ? 0.1 : 0.2 + 0.8 * f));
-    const timings = { ...result.timings, storeCopyFactsMs: stats.timings.copyFactsMs, storeTermsMs: stats.timings.copyTermsMs, storeIndexMs: stats.timings.indexMs };
+    const timings = { ...result.timings, storeStreamMs: stats.timings.copyFactsMs, storeWriteMs: stats.timings.writeMs + stats.timings.endCopyMs, storeTermsMs: stats.timings.copyTermsMs, storeIndexMs: stats.timings.indexMs };
     const toStore = loader;
     loader = null;
     await toStore.commit(async (client) => {
