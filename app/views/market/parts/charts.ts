@@ -19,6 +19,8 @@ export function dailyStack(rows: { day: string; group: string; value: number }[]
     data: axis.map((day) => rows.filter((r) => r.group === group && r.day === day).reduce((sum, r) => sum + r.value, 0)),
   }));
   return {
+    // Theme colours (app/styles/theme.css) first: copper, moss, ink; then muted companions.
+    color: ['#8a4b2a', '#3d7550', '#55616a', '#b98a5e', '#7fa487', '#a3adb3'],
     tooltip: { trigger: 'axis' },
     legend: { top: 0, type: 'scroll' },
     grid: { left: 50, right: 16, top: 36, bottom: 28 },
