@@ -63,7 +63,7 @@ export function sniffFormat(role: UploadRole, originalName: string, head: Buffer
   const ext = extensionOf(originalName);
   const allowed: readonly string[] = role === 'ontology' ? UPLOAD_LIMITS.ontologyExtensions : UPLOAD_LIMITS.datasetExtensions;
   if (!allowed.includes(ext)) {
-    throw unsupported(`${originalName}: an ${role} file must end in ${allowed.map((e) => '.' + e).join(', ')}${ext ? ` (got .${ext})` : ''}.`);
+    throw unsupported(`${originalName}: ${role === "ontology" ? "an ontology" : "a dataset"} file must end in ${allowed.map((e) => '.' + e).join(', ')}${ext ? ` (got .${ext})` : ''}.`);
   }
   if (head.length === 0) throw new HttpError(400, `${originalName} is empty.`, 'empty_file');
   if (head.includes(0)) throw unsupported(`${originalName} is not a text file (it contains NUL bytes); upload the ${ext} text itself, not an archive.`);
