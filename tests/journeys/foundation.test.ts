@@ -26,7 +26,7 @@ async function freshPage(options?: { width?: number; height?: number }): Promise
 }
 
 /** Polls until the value matches; the default second of expect.poll is short on a shared two-core machine. */
-const eventually = <T>(read: () => T | Promise<T>) => expect.poll(read, { timeout: 10_000 });
+const eventually = <T>(read: () => T | Promise<T>) => expect.poll(read, { timeout: 20_000 });
 
 /** Waits until the address is this path (globs would also match "/sign-in?redirect=/admin/users" for "**\/admin/users"). */
 const atPath = (page: Page, pathname: string) => page.waitForURL((url) => url.pathname === pathname);
@@ -58,6 +58,12 @@ describe('journey: sign-up, verification mail, sign-out, sign-in', () => {
     await page.goto(app.url + '/');
     await eventually(() => page.getByRole('heading', { level: 1 }).textContent()).toContain('Facts that follow');
     await shot('home-signed-out');
+    // The shipped fonts (fonts/, through @font-face) load from our own origin under the app's Content-Security-Policy.
+    const loadedFaces = await page.evaluate(async () => {
+      await document.fonts.ready;
+      return [...document.fonts].filter((face) => face.status === 'loaded').map((face) => `${face.family.replace(/"/g, '')} ${face.weight}`);
+    });
+    expect(loadedFaces).toEqual(expect.arrayContaining(['IBM Plex Sans 400', 'IBM Plex Sans 600']));
 
     await page.getByRole('link', { name: 'Create account' }).click();
     await atPath(page, '/sign-up');
@@ -85,7 +91,8 @@ describe('journey: sign-up, verification mail, sign-out, sign-in', () => {
     const mail = await waitForMail(email, /confirm/i);
     const link = linkIn(mail, `${app.url}/verify?token=`);
     await page.goto(link);
-    await eventually(() => page.getByText('Your e-mail address is confirmed').isVisible()).toBe(true);
+    // The page says either that the address is confirmed or why the link failed; show which on failure.
+    await eventually(() => page.locator('.el-result__title').textContent()).toBe('Your e-mail address is confirmed');
     await shot('verified');
     // The reminder is gone once the address is confirmed.
     await page.getByRole('link', { name: 'Continue' }).click();
