@@ -68,7 +68,11 @@ export class TermDictionary {
 
   /** Interns the UTF-8 bytes bytes[start, end) (which must be valid UTF-8 in the encoding above). */
   internBytes(bytes: Uint8Array, start: number, end: number): number {
-    const hash = hashBytes(bytes, start, end);
+    return this.internHashed(bytes, start, end, hashBytes(bytes, start, end));
+  }
+
+  /** As internBytes, with `hash` = hashBytes(bytes, start, end) already computed by the caller's scan. */
+  internHashed(bytes: Uint8Array, start: number, end: number, hash: number): number {
     const found = this.lookup(bytes, start, end, hash);
     if (found >= 0) return found;
     return this.add(bytes, start, end, hash);
@@ -143,10 +147,13 @@ export class TermDictionary {
   }
 }
 
+/** FNV-1a offset basis and prime (32 bits); a caller may fold bytes itself as h = Math.imul(h ^ byte, FNV_PRIME). */
+export const FNV_OFFSET = 0x811c9dc5 | 0, FNV_PRIME = 0x01000193;
+
 /** FNV-1a, 32 bits, over bytes[start, end). */
 export function hashBytes(bytes: Uint8Array, start: number, end: number): number {
-  let h = 0x811c9dc5 | 0;
-  for (let i = start; i < end; i++) h = Math.imul(h ^ bytes[i]!, 0x01000193);
+  let h = FNV_OFFSET;
+  for (let i = start; i < end; i++) h = Math.imul(h ^ bytes[i]!, FNV_PRIME);
   return h;
 }
 

@@ -3,7 +3,7 @@
 import { isUtf8 } from 'node:buffer';
 import { escapeLexical } from './terms.js';
 import { XSD_STRING } from '../model/vocabulary.js';
-import type { TermDictionary } from '../model/dictionary.js';
+import { FNV_OFFSET, FNV_PRIME, type TermDictionary } from '../model/dictionary.js';
 
 /** Object kinds passed to the handler. */
 export const IRI = 0, BLANK = 1, LITERAL = 2;
@@ -161,16 +161,20 @@ export class NTriplesReader {
   /** IRIREF: returns the IRI's id (UCHAR escapes decoded); pos ends after ">". */
   private iri(end: number): number {
     const b = this.buf, start = ++this.pos;
-    let escaped = false;
-    while (this.pos < end) {
-      const c = b[this.pos]!;
+    let escaped = false, p = start, h = FNV_OFFSET;
+    // One pass: find ">", check IRIREF characters and fold the FNV-1a hash the dictionary needs.
+    while (p < end) {
+      const c = b[p]!;
       if (c === 0x3e) break;
       if (IRI_STOP[c]) {
-        if (c === 0x5c) { escaped = true; this.pos += 2; continue; }
+        if (c === 0x5c) { escaped = true; p += 2; continue; }
+        this.pos = p;
         return this.error(`invalid character in IRI: ${c < 0x21 ? 'U+' + c.toString(16).padStart(4, '0').toUpperCase() : '"' + String.fromCharCode(c) + '"'}`);
       }
-      this.pos++;
+      h = Math.imul(h ^ c, FNV_PRIME);
+      p++;
     }
+    this.pos = p;
     if (this.pos >= end) return this.error('unterminated IRI: expected ">"', start - 1);
     const stop = this.pos++;
     if (start === stop) return this.error('empty IRI <>: relative IRIs are not allowed in N-Triples', start - 1);
@@ -182,7 +186,7 @@ export class NTriplesReader {
       while (i < stop && (SCHEME[b[i]!] === 1)) i++;
     }
     if (i === start || i >= stop || b[i] !== 0x3a) return this.error('relative IRI: N-Triples needs absolute IRIs', start - 1);
-    return this.dictionary.internBytes(b, start, stop);
+    return this.dictionary.internHashed(b, start, stop, h);
   }
 
   /** The value of an IRIREF as a string (for datatypes). */
