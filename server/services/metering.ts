@@ -2,7 +2,9 @@
 // Counts are buffered in memory and written every FLUSH_MS with ONE statement (an UPSERT over unnest() arrays that also
 // stamps the keys' last_used_at). Bound: a crash (SIGKILL, power loss) loses at most the requests answered in the last
 // flush interval — plus those of a flush whose statement failed and had not been retried yet; a graceful stop flushes
-// through onShutdown() so no served request is uncounted. The monthly quota reads the same counters (+ the unflushed ones).
+// through onShutdown() so no served request is uncounted. The monthly quota reads the same counters (+ this process's
+// unflushed ones): within one process it is exact; with several processes one may overshoot the quota by what the others
+// answered in the last QUOTA_REFRESH_MS + FLUSH_MS (at most the plan's rate limit for that time).
 import type { AppContext } from '../context.js';
 import { onShutdown } from '../lifecycle.js';
 import { LATENCY_BUCKETS_MS } from '../../shared/market.js';

@@ -10,6 +10,12 @@ import type { ResolvedKey } from './apiKeys.js';
 
 export const WINDOW_MS = 60_000;
 
+const INCREMENT_SQL = `INSERT INTO rate_limit_buckets AS b (key, hits, reset_at) VALUES ($1, 1, now() + $2 * interval '1 millisecond')
+  ON CONFLICT (key) DO UPDATE SET
+    hits = CASE WHEN b.reset_at <= now() THEN 1 ELSE b.hits + 1 END,
+    reset_at = CASE WHEN b.reset_at <= now() THEN excluded.reset_at ELSE b.reset_at END
+  RETURNING hits, reset_at`;
+
 export class PostgresRateLimitStore implements Store {
   windowMs = WINDOW_MS;
   readonly localKeys = false;
@@ -24,13 +30,8 @@ export class PostgresRateLimitStore implements Store {
   }
 
   async increment(key: string): Promise<ClientRateLimitInfo> {
-    const { rows } = await this.pool.query<{ hits: number; reset_at: Date }>(
-      `INSERT INTO rate_limit_buckets AS b (key, hits, reset_at) VALUES ($1, 1, now() + $2 * interval '1 millisecond')
-       ON CONFLICT (key) DO UPDATE SET
-         hits = CASE WHEN b.reset_at <= now() THEN 1 ELSE b.hits + 1 END,
-         reset_at = CASE WHEN b.reset_at <= now() THEN excluded.reset_at ELSE b.reset_at END
-       RETURNING hits, reset_at`,
-      [this.prefix + key, this.windowMs]);
+    // A named statement: PostgreSQL parses and plans it once per connection, not on every request.
+    const { rows } = await this.pool.query<{ hits: number; reset_at: Date }>({ name: 'thence-rate-limit-increment', text: INCREMENT_SQL, values: [this.prefix + key, this.windowMs] });
     return { totalHits: rows[0].hits, resetTime: rows[0].reset_at };
   }
 

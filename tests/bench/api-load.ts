@@ -82,12 +82,15 @@ async function runDirect(pool: pg.Pool, storeKey: number, kind: 'lookup' | 'patt
   return { rps: latencies.length / SECONDS, p50: at(0.5), p99: at(0.99), total: latencies.length };
 }
 
+const loadBefore = (await import('node:os')).loadavg().map((l) => l.toFixed(1)).join(' ');
 const ctx = await createContext();
 const publisher = await createTestUser(ctx, { roles: ['publisher'] });
 const listing = await publishedListing(ctx, benchFacts(), { publisher, title: 'Benchmark registry' });
 const k = await subscriberWithKey(ctx, listing, { ratePerMinute: 1_000_000, monthlyQuota: 1_000_000_000 });
 const port = await freePort();
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production' }, stdio: ['ignore', 'inherit', 'inherit'] });
+// WORKERS server processes on one port (default 2, one per core of the reference machine); 1 gives a single process.
+const WORKERS = Number(process.env.WORKERS ?? 2);
+const server = spawn(process.execPath, ['--import', 'tsx', 'tests/bench/serve-cluster.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production', WORKERS: String(WORKERS) }, stdio: ['ignore', 'ignore', 'inherit'] });
 const exited = new Promise<number | null>((resolve) => server.on('exit', resolve));
 const url = `http://127.0.0.1:${port}`;
 for (let i = 0; ; i++) {
@@ -116,7 +119,7 @@ const { rows } = await ctx.pool.query<{ n: string }>(`SELECT coalesce(sum(count)
 const counted = Number(rows[0].n);
 
 const f = (n: number) => n.toFixed(n < 10 ? 2 : 0);
-console.log(`\n/api/v1 load, ${CONNECTIONS} connections, ${SECONDS} s per run (auth + PostgreSQL rate limit + metering on)`);
+console.log(`\n/api/v1 load, ${CONNECTIONS} connections, ${SECONDS} s per run, ${WORKERS} server process(es) (auth + PostgreSQL rate limit + metering on); load average before: ${loadBefore}`);
 console.log('run                    req/s     p50 ms   p99 ms   requests   non-2xx');
 for (const [name, r] of [['HTTP fact lookup', httpLookup], ['HTTP pattern query', httpPattern]] as const) {
   console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}   ${r.non2xx + r.errors}`);
