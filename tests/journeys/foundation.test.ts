@@ -7,6 +7,9 @@ import { createTestUser, uniqueEmail, TEST_PASSWORD } from '../support/app.js';
 import { journeyShots, launchBrowser, startApp, type BrowserSession, type RunningApp } from '../support/browser.js';
 import { linkIn, waitForMail } from '../support/mail.js';
 
+/** A journey is many page loads on a shared machine; vitest's default 30 s is for single requests. */
+const JOURNEY_TIMEOUT_MS = 120_000;
+
 let app: RunningApp;
 let browser: BrowserSession | null = null;
 
@@ -134,7 +137,7 @@ describe('journey: sign-up, verification mail, sign-out, sign-in', () => {
     await page.getByRole('button', { name: 'Change password' }).click();
     await eventually(() => fieldError(page, 'currentPassword').textContent()).toContain('not correct');
     await shot('account-wrong-current-password');
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
 
 describe('journey: password reset by mail', () => {
@@ -177,7 +180,7 @@ describe('journey: password reset by mail', () => {
     await page.waitForURL(app.url + '/');
     await eventually(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Reset Tester');
     await shot('signed-in-with-new-password');
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
 
 describe('journey: Google sign-in through the OpenID Connect stand-in', () => {
@@ -209,7 +212,7 @@ describe('journey: Google sign-in through the OpenID Connect stand-in', () => {
     await page.getByRole('button', { name: 'Account menu' }).click();
     await eventually(() => page.getByText(identity.email).first().isVisible()).toBe(true);
     await shot('account-menu');
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
 
 describe('journey: role-guarded pages', () => {
@@ -259,7 +262,7 @@ describe('journey: role-guarded pages', () => {
 
     const stored = await app.ctx.pool.query<{ roles: string[] }>('SELECT roles FROM users WHERE id = $1', [subscriber.id]);
     expect([...stored.rows[0].roles].sort()).toEqual(['publisher', 'subscriber']);
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
 
 describe('journey: the session survives a server restart', () => {
@@ -287,7 +290,7 @@ describe('journey: the session survives a server restart', () => {
     await page.locator('input[name="name"]').fill('Restart Tester Again');
     await page.getByRole('button', { name: 'Save name' }).click();
     await eventually(() => page.getByRole('button', { name: 'Account menu' }).textContent()).toContain('Restart Tester Again');
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
 
 describe('journey: the shell on a narrow screen', () => {
@@ -304,5 +307,5 @@ describe('journey: the shell on a narrow screen', () => {
     await shot('drawer-open');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Home' }).click();
     await eventually(() => page.getByRole('navigation', { name: 'Main' }).isVisible()).toBe(false);
-  });
+  }, JOURNEY_TIMEOUT_MS);
 });
