@@ -94,7 +94,7 @@ class OfnParser {
     if (end.type !== 'eof') this.fail(end, 'end of input after the Ontology');
     return {
       source: this.source, format: 'ofn', iri, versionIri, imports, annotations,
-      axioms: this.axioms.map((a, id) => ({ ...a, id })) as Ontology['axioms'],
+      axioms: this.axioms as unknown as Ontology['axioms'],
       prefixes: { ...this.declared },
     };
   }
@@ -333,7 +333,11 @@ class OfnParser {
     }
     const annotations = this.annotations();
     const position = { source: this.source, line: t.line, column: t.column };
-    const push = (a: Record<string, unknown>) => this.axioms.push({ ...a, position, annotations } as unknown as AxiomInit);
+    const push = (a: Record<string, unknown>) => {
+      // The axiom object is completed in place (id, position, annotations): no copy per axiom.
+      a.id = this.axioms.length; a.position = position; a.annotations = annotations;
+      this.axioms.push(a as unknown as AxiomInit);
+    };
     const k = t.value;
     switch (k) {
       case 'Declaration': {
