@@ -6,9 +6,11 @@
 // The three orders answer all eight atomic patterns by an index range: every set of bound positions is a prefix of one of them
 // (s, sp, spo → spo; p, po → pos; o, so → osp; none → spo).
 //
-// Atomic visibility: both tables are created, filled (COPY ... FREEZE), indexed and analysed inside ONE transaction that also flips
-// the version's status to 'ready'. Until that COMMIT no other session sees the tables; a worker killed mid-load leaves nothing
-// behind (the transaction rolls back with the connection), and a retry starts from `DROP TABLE IF EXISTS`.
+// Atomic visibility: a load writes staging tables (kb_facts_<key>_load, kb_terms_<key>_load), each created and filled by
+// COPY ... FREEZE inside its own transaction, so a worker killed during a COPY leaves nothing. The indexes are then built in
+// parallel sessions (one per index), and one last transaction renames both tables to their served names and flips the
+// version's status to 'ready'. Lookups only ever read the served names; staging leftovers of a dead worker are dropped on
+// retry and by the worker's sweep (dropFactTables removes both names).
 import type pg from 'pg';
 import copyStreams from 'pg-copy-streams';
 
@@ -153,9 +155,12 @@ export async function publishedVersionBySlug(pool: pg.Pool | pg.PoolClient, slug
   return { listingId: row.listing_id, versionId: row.version_id, storeKey: row.store_key, number: row.number, factCount: Number(row.fact_count ?? 0) };
 }
 
-/** Drops a version's fact tables (both, if present). Used on delete and before a retry. */
+const staging = (table: string) => `${table}_load`;
+
+/** Drops a version's fact tables, served and staging, if present. Used on delete, before a retry and by the sweep. */
 export async function dropFactTables(pool: pg.Pool | pg.PoolClient, storeKey: number): Promise<void> {
-  await pool.query(`DROP TABLE IF EXISTS ${factsTable(storeKey)}, ${termsTable(storeKey)}`);
+  const facts = factsTable(storeKey), terms = termsTable(storeKey);
+  await pool.query(`DROP TABLE IF EXISTS ${facts}, ${terms}, ${staging(facts)}, ${staging(terms)}`);
 }
 
 /** Whether a version's fact tables are visible (committed). */
@@ -183,10 +188,13 @@ function copyText(value: string): string {
 }
 
 const FLUSH_CHARS = 1 << 18;
+/** Per index-building session; four run at once (three fact orders, the dictionary), so this stays modest. */
+const INDEX_MEMORY = '128MB';
 
 /**
- * A FactSink that streams facts into a new version's tables inside one open transaction.
- * open() → write()… → finish() (dictionary, indexes) → commit(final) (runs `final` in the same transaction, then COMMIT); or abort().
+ * A FactSink that streams facts into a new version's staging tables.
+ * open() → write()… → finish(pool) (dictionary, parallel indexes) → commit(final) (renames the tables and runs `final`,
+ * e.g. the status flip, in one transaction); or abort(), which leaves nothing behind.
  */
 export class FactLoader {
   private readonly ids = new Map<string, number>();
@@ -194,6 +202,7 @@ export class FactLoader {
   private stream: NodeJS.WritableStream | null = null;
   private streamDone: Promise<void> | null = null;
   private streamError: Error | null = null;
+  private inTransaction = false;
   private facts = 0;
   private asserted = 0;
   private readonly perClass: Record<string, PredicateCount> = {};
@@ -204,19 +213,19 @@ export class FactLoader {
   private writeMs = 0;
   private closed = false;
 
-  private constructor(private readonly client: pg.PoolClient, readonly storeKey: number) {}
+  private constructor(private readonly pool: pg.Pool, private readonly client: pg.PoolClient, readonly storeKey: number) {}
 
-  /** Takes a connection, drops leftovers of an earlier attempt, opens the transaction and the COPY for facts. */
+  /** Takes a connection, drops leftovers of an earlier attempt, creates the staging fact table and opens its COPY. */
   static async open(pool: pg.Pool, storeKey: number): Promise<FactLoader> {
     const client = await pool.connect();
-    const loader = new FactLoader(client, storeKey);
+    const loader = new FactLoader(pool, client, storeKey);
     try {
+      await dropFactTables(client, storeKey);
       await client.query('BEGIN');
-      await client.query(`SET LOCAL maintenance_work_mem = '256MB'`);
-      await client.query(`DROP TABLE IF EXISTS ${factsTable(storeKey)}, ${termsTable(storeKey)}`);
-      await client.query(`CREATE TABLE ${factsTable(storeKey)} (s integer NOT NULL, p integer NOT NULL, o integer NOT NULL, asserted boolean NOT NULL)`);
-      await client.query(`CREATE TABLE ${termsTable(storeKey)} (id integer NOT NULL, term text NOT NULL)`);
-      loader.startCopy(`COPY ${factsTable(storeKey)} (s, p, o, asserted) FROM STDIN WITH (FORMAT text, FREEZE true)`);
+      loader.inTransaction = true;
+      // Created in the COPY's own transaction, so COPY may FREEZE the rows (PostgreSQL docs, COPY, FREEZE) and a crash before COMMIT leaves no table.
+      await client.query(`CREATE TABLE ${staging(factsTable(storeKey))} (s integer NOT NULL, p integer NOT NULL, o integer NOT NULL, asserted boolean NOT NULL)`);
+      loader.startCopy(`COPY ${staging(factsTable(storeKey))} (s, p, o, asserted) FROM STDIN WITH (FORMAT text, FREEZE true)`);
       return loader;
     } catch (error) {
       await loader.abort();
@@ -282,22 +291,29 @@ export class FactLoader {
     }
   }
 
+  /** Ends the open COPY and commits its transaction. */
   private async endCopy(): Promise<void> {
     await this.flush();
     this.stream!.end();
     await this.streamDone;
     this.stream = null;
+    await this.client.query('COMMIT');
+    this.inTransaction = false;
   }
 
-  /** Ends the facts COPY, writes the dictionary, builds the indexes and statistics. The transaction stays open. */
+  /** Ends the facts COPY, writes the dictionary, builds the indexes (in parallel sessions) and statistics. Nothing is served yet. */
   async finish(onStep?: (step: 'terms' | 'indexes', fraction: number) => void): Promise<LoadStats> {
     let t = Date.now();
     await this.endCopy();
     const endCopyMs = Date.now() - t;
     const copyFactsMs = this.firstWriteAt ? Date.now() - this.firstWriteAt : 0;
+    const k = this.storeKey, facts = factsTable(k), terms = termsTable(k);
     t = Date.now();
     onStep?.('terms', 0);
-    this.startCopy(`COPY ${termsTable(this.storeKey)} (id, term) FROM STDIN WITH (FORMAT text, FREEZE true)`);
+    await this.client.query('BEGIN');
+    this.inTransaction = true;
+    await this.client.query(`CREATE TABLE ${staging(terms)} (id integer NOT NULL, term text NOT NULL)`);
+    this.startCopy(`COPY ${staging(terms)} (id, term) FROM STDIN WITH (FORMAT text, FREEZE true)`);
     for (const [term, id] of this.ids) {
       this.buffer += `${id}\t${copyText(term)}\n`;
       if (this.buffer.length >= FLUSH_CHARS) await this.flush();
@@ -305,20 +321,29 @@ export class FactLoader {
     await this.endCopy();
     const copyTermsMs = Date.now() - t;
     t = Date.now();
-    const k = this.storeKey, facts = factsTable(k), terms = termsTable(k);
-    const steps = [
-      `ALTER TABLE ${terms} ADD CONSTRAINT ${terms}_pkey PRIMARY KEY (id)`,
-      `CREATE INDEX ${terms}_term ON ${terms} USING hash (term)`,
-      `CREATE INDEX ${facts}_spo ON ${facts} (s, p, o) INCLUDE (asserted)`,
-      `CREATE INDEX ${facts}_pos ON ${facts} (p, o, s) INCLUDE (asserted)`,
-      `CREATE INDEX ${facts}_osp ON ${facts} (o, s, p) INCLUDE (asserted)`,
-      `ANALYZE ${facts}`,
-      `ANALYZE ${terms}`,
+    // Index names carry the served table names: they survive the rename and stay unique per store key.
+    const builds = [
+      [`ALTER TABLE ${staging(terms)} ADD CONSTRAINT ${terms}_pkey PRIMARY KEY (id)`, `CREATE INDEX ${terms}_term ON ${staging(terms)} USING hash (term)`, `ANALYZE ${staging(terms)}`],
+      [`CREATE INDEX ${facts}_spo ON ${staging(facts)} (s, p, o) INCLUDE (asserted)`, `ANALYZE ${staging(facts)}`],
+      [`CREATE INDEX ${facts}_pos ON ${staging(facts)} (p, o, s) INCLUDE (asserted)`],
+      [`CREATE INDEX ${facts}_osp ON ${staging(facts)} (o, s, p) INCLUDE (asserted)`],
     ];
-    for (const [i, sql] of steps.entries()) {
-      onStep?.('indexes', i / steps.length);
-      await this.client.query(sql);
-    }
+    let done = 0;
+    onStep?.('indexes', 0);
+    // CREATE INDEX takes a SHARE lock, which does not conflict with itself: the three orders build side by side.
+    await Promise.all(
+      builds.map(async (statements) => {
+        const session = await this.pool.connect();
+        try {
+          await session.query(`SET maintenance_work_mem = '${INDEX_MEMORY}'`);
+          for (const sql of statements) await session.query(sql);
+          await session.query('RESET maintenance_work_mem');
+        } finally {
+          session.release();
+        }
+        onStep?.('indexes', ++done / builds.length);
+      }),
+    );
     return {
       facts: this.facts,
       asserted: this.asserted,
@@ -329,11 +354,17 @@ export class FactLoader {
     };
   }
 
-  /** Runs `final` (e.g. the status flip) in the load transaction and commits: tables and status become visible together. */
+  /** Renames the staging tables to their served names and runs `final` (e.g. the status flip) in the same transaction. */
   async commit(final: (client: pg.PoolClient) => Promise<void>): Promise<void> {
+    const facts = factsTable(this.storeKey), terms = termsTable(this.storeKey);
     try {
+      await this.client.query('BEGIN');
+      this.inTransaction = true;
+      await this.client.query(`ALTER TABLE ${staging(facts)} RENAME TO ${facts}`);
+      await this.client.query(`ALTER TABLE ${staging(terms)} RENAME TO ${terms}`);
       await final(this.client);
       await this.client.query('COMMIT');
+      this.inTransaction = false;
     } catch (error) {
       await this.abort();
       throw error;
@@ -341,21 +372,15 @@ export class FactLoader {
     this.release();
   }
 
-  /** Rolls the load back (nothing of it stays) and returns the connection. Safe to call twice. */
+  /** Rolls back what is open, drops the staging tables and returns the connection. Safe to call twice. */
   async abort(): Promise<void> {
     if (this.closed) return;
-    try {
-      if (this.stream) {
-        // An open COPY must be ended before ROLLBACK is accepted on the connection; destroying it is the quickest way.
-        this.release(new Error('load aborted'));
-        return;
-      }
-      await this.client.query('ROLLBACK');
-    } catch {
-      this.release(new Error('rollback failed'));
-      return;
-    }
-    this.release();
+    if (this.stream || this.inTransaction) {
+      // An open COPY must end before ROLLBACK is accepted; destroying the connection makes PostgreSQL roll back at once.
+      this.release(new Error('load aborted'));
+    } else this.release();
+    const facts = factsTable(this.storeKey), terms = termsTable(this.storeKey);
+    await this.pool.query(`DROP TABLE IF EXISTS ${staging(facts)}, ${staging(terms)}`).catch(() => undefined);
   }
 
   private release(error?: Error): void {
