@@ -193,16 +193,19 @@ export async function loadDatasets(
 
 /**
  * Adds the ontology's own (normalised) assertions to an ABox: class, property, sameAs and differentFrom rows.
- * Use after `normalise` so that facts written in the ontology file join the datasets' facts.
+ * Use after `normalise` so that facts written in the ontology file join the datasets' facts. Data-property
+ * assertions of the ontology go to `abox.data` (kept, not reasoned with).
  */
 export function addAssertionsToAbox(normal: NormalOntology, dictionary: TermDictionary, abox: Abox): void {
+  // Anonymous individuals of the ontology become `_:o_label`; dataset blank nodes are `_:f<n>_label`: never the same.
+  const ind = (a: string) => dictionary.intern(a.startsWith('_:') ? '_:o_' + a.slice(2) : a);
   for (const a of normal.assertions) {
     switch (a.kind) {
-      case 'classAssertion': abox.addClass(dictionary.intern(a.cls), dictionary.intern(a.individual)); break;
-      case 'propertyAssertion': abox.addProperty(dictionary.intern(a.property), dictionary.intern(a.subject), dictionary.intern(a.object)); break;
-      case 'sameIndividual': abox.addSame(dictionary.intern(a.a), dictionary.intern(a.b)); break;
-      case 'differentIndividuals': abox.addDifferent(dictionary.intern(a.a), dictionary.intern(a.b)); break;
+      case 'classAssertion': abox.addClass(dictionary.intern(a.cls), ind(a.individual)); break;
+      case 'propertyAssertion': abox.addProperty(dictionary.intern(a.property), ind(a.subject), ind(a.object)); break;
+      case 'sameIndividual': abox.addSame(ind(a.a), ind(a.b)); break;
+      case 'differentIndividuals': abox.addDifferent(ind(a.a), ind(a.b)); break;
     }
   }
-  for (const d of normal.dataAssertions ?? []) abox.addData(dictionary.intern(d.subject), dictionary.intern(d.property), dictionary.intern(d.literal));
+  for (const d of normal.dataAssertions ?? []) abox.addData(ind(d.subject), dictionary.intern(d.property), dictionary.intern(d.literal));
 }

@@ -1,6 +1,7 @@
 // Dataset intake: N-Triples, Turtle and mapped CSV streamed into the columnar ABox through the term dictionary.
 
 import { describe, expect, it, beforeAll, afterAll } from 'vitest';
+import fc from 'fast-check';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -161,5 +162,39 @@ describe('Turtle hostile input', () => {
     const e = await loadDatasets([{ path }], new TermDictionary(), new Abox(), { maxLineBytes: 1 << 20 }).catch((x) => x);
     expect(e).toBeInstanceOf(InputError);
     expect(e.diagnostics[0].message).toMatch(/longer than 1048576 bytes/);
+  });
+});
+
+describe('N-Triples reader agrees with n3 (outside reference parser) on random documents', () => {
+  // Random terms with the escapes of RDF 1.1 N-Triples §7 (UCHAR in IRIs and literals, ECHAR in literals).
+  const iriChar = fc.constantFrom('a', 'b', 'Z', '0', '-', '.', '~', '/', '#', 'é', '中', '\\u00E9', '\\U0001F600', '%20');
+  const iri = fc.array(iriChar, { maxLength: 8 }).map((cs) => `<http://e.org/${cs.join('')}>`);
+  const blank = fc.stringMatching(/^[a-z][a-z0-9]{0,5}$/).map((l) => `_:${l}`);
+  const litChar = fc.constantFrom('a', ' ', 'ü', '😀', '\\t', '\\n', '\\"', '\\\\', '\\u0041', "\\'", '\\r', '\\b', '\\f');
+  const literal = fc.tuple(fc.array(litChar, { maxLength: 8 }), fc.constantFrom('', '@en', '@EN-gb', '^^<http://www.w3.org/2001/XMLSchema#string>', '^^<http://www.w3.org/2001/XMLSchema#integer>'))
+    .map(([cs, suffix]) => `"${cs.join('')}"${suffix}`);
+  const triple = fc.tuple(fc.oneof(iri, blank), iri, fc.oneof(iri, blank, literal)).map(([s, p, o]) => `${s} ${p} ${o} .`);
+
+  it('reads the same canonical terms as n3 for every triple (fast-check)', async () => {
+    const { Parser } = await import('n3');
+    const { fromRdfJs } = await import('../../../reasoner/syntax/rdf-graph.js');
+    let n = 0;
+    await fc.assert(fc.asyncProperty(fc.array(triple, { minLength: 1, maxLength: 20 }), async (lines) => {
+      const text = lines.join('\n') + '\n';
+      const path = file(`diff${n++}.nt`, text);
+      const dictionary = new TermDictionary(), abox = new Abox();
+      await loadDatasets([{ path }], dictionary, abox);
+      const ours: string[] = [];
+      const t = (id: number) => dictionary.term(id).replace(/^_:f1_/, '_:');
+      abox.forEachClass((c, i) => ours.push(`${t(i)} type ${t(c)}`));
+      abox.forEachProperty((p, s, o) => ours.push(`${t(s)} ${t(p)} ${t(o)}`));
+      abox.forEachData((s, p, l) => ours.push(`${t(s)} ${t(p)} ${t(l)}`));
+      const theirs = new Parser({ format: 'N-Triples', blankNodePrefix: '' }).parse(text).map((q) => {
+        const key = (x: Parameters<typeof fromRdfJs>[0]) => fromRdfJs(x).key;
+        const p = q.predicate.value === 'http://www.w3.org/1999/02/22-rdf-syntax-ns#type' ? 'type' : key(q.predicate);
+        return p === 'type' ? `${key(q.subject)} type ${key(q.object)}` : `${key(q.subject)} ${p} ${key(q.object)}`;
+      });
+      expect(ours.sort()).toEqual(theirs.sort());
+    }), { numRuns: 150 });
   });
 });
