@@ -293,6 +293,32 @@ describe('journey: the session survives a server restart', () => {
   }, JOURNEY_TIMEOUT_MS);
 });
 
+describe('journey: signed out in another tab', () => {
+  it('sends the first tab to sign-in when it comes back into view', async () => {
+    const user = await createTestUser(app.ctx, { roles: ['subscriber'], name: 'Two Tabs' });
+    const first = await freshPage();
+    const shot = journeyShots(first, 'two-tabs');
+    await first.goto(app.url + '/sign-in?redirect=/account');
+    await signInThroughForm(first, user.email, user.password);
+    await atPath(first, '/account');
+    await eventually(() => first.getByRole('heading', { level: 1 }).textContent()).toBe('Your account');
+
+    // Same profile, so the same session cookie: signing out here ends the session for both tabs.
+    const second = await browser!.context.newPage();
+    await second.goto(app.url + '/');
+    await signOutThroughMenu(second);
+
+    // The shell checks again when the tab becomes visible (at most every 5 s). Headless chromium keeps every tab
+    // "visible", so the event a browser sends on switching tabs is sent here by hand.
+    await first.waitForTimeout(5_200);
+    await first.bringToFront();
+    await first.evaluate(() => document.dispatchEvent(new Event('visibilitychange')));
+    await first.waitForURL((url) => url.pathname === '/sign-in' && url.searchParams.get('redirect') === '/account');
+    await eventually(() => first.getByRole('link', { name: 'Sign in', exact: true }).isVisible()).toBe(true);
+    await shot('first-tab-asked-to-sign-in');
+  }, JOURNEY_TIMEOUT_MS);
+});
+
 describe('journey: the shell on a narrow screen', () => {
   it('folds the navigation into a drawer opened from the menu button', async () => {
     const page = await freshPage({ width: 390, height: 800 });
