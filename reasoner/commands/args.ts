@@ -8,13 +8,15 @@ export interface IntakeArgs {
   readonly format?: OntologyFormat;
   readonly approximate: boolean;
   readonly json: boolean;
+  /** check: list every axiom with its classification, not only the non-Horn and outside ones. */
+  readonly all: boolean;
 }
 
 const FORMATS = new Set(['ofn', 'turtle', 'ntriples', 'rdfxml']);
 
 /** Reads the arguments or returns a usage message. */
 export function readIntakeArgs(args: readonly string[], command: string): IntakeArgs | string {
-  let ontology: string | undefined, format: string | undefined, approximate = false, json = false;
+  let ontology: string | undefined, format: string | undefined, approximate = false, json = false, all = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
     if (a === '--ontology') ontology = args[++i];
@@ -23,11 +25,12 @@ export function readIntakeArgs(args: readonly string[], command: string): Intake
     else if (a === '--approximate') approximate = true;
     else if (a === '--strict') approximate = false;
     else if (a === '--json') json = true;
+    else if (a === '--all') all = true;
     else return `unknown option "${a}"\nusage: npm run reason -- ${command} --ontology FILE [--format ofn|turtle|ntriples|rdfxml] [--approximate] [--json]`;
   }
   if (!ontology) return `missing --ontology FILE\nusage: npm run reason -- ${command} --ontology FILE [--format ofn|turtle|ntriples|rdfxml] [--approximate] [--json]`;
   if (format && !FORMATS.has(format)) return `unknown format "${format}": expected ofn, turtle, ntriples or rdfxml`;
-  return { ontology, format: format as OntologyFormat | undefined, approximate, json };
+  return { ontology, format: format as OntologyFormat | undefined, approximate, json, all };
 }
 
 /** One diagnostic as a line: `position: severity: message` (and the axiom text when there is one). */

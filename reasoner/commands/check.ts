@@ -30,8 +30,9 @@ export async function run(args: string[]): Promise<number> {
       const section = (title: string, entries: readonly ProfileEntry[]) => {
         if (!entries.length) return;
         out.push('', title);
-        for (const e of entries) out.push(`  ${e.position}  ${e.text}\n      ${e.reasons.join('; ')}`);
+        for (const e of entries) out.push(`  ${e.position}  ${e.text}${e.reasons.length ? `\n      ${e.reasons.join('; ')}` : ''}`);
       };
+      if (parsed.all) section('Horn-ALCHIQ axioms:', report.entries.filter((e) => e.classification === 'horn'));
       section('Non-Horn (ALCHIQ) axioms:', report.entries.filter((e) => e.classification === 'alchiq'));
       section(report.mode === 'strict' ? 'Outside ALCHIQ (refused):' : 'Outside ALCHIQ (dropped):', report.entries.filter((e) => e.classification === 'outside'));
       const notes = [...diagnostics.map(diagnosticLine), ...report.warnings];

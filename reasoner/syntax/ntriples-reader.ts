@@ -65,6 +65,8 @@ export class NTriplesReader {
   /** Reads every complete line of the chunk; keeps the incomplete tail for the next chunk. */
   push(chunk: Buffer): void {
     let buf = chunk;
+    // A UTF-8 byte-order mark at the start of the file is not part of the text.
+    if (this.line === 0 && !this.carry && buf[0] === 0xef && buf[1] === 0xbb && buf[2] === 0xbf) buf = buf.subarray(3);
     if (this.carry) { buf = Buffer.concat([this.carry, chunk]); this.carry = null; }
     const last = buf.lastIndexOf(0x0a);
     if (last < 0) {
