@@ -114,6 +114,8 @@ export async function processVersion(ctx: AppContext, versionId: string, options
         datasets: files.filter((f) => f.role === 'dataset').map((f) => ({ path: f.storedPath, format: f.format as never, ...(f.csvMapping ? { csv: f.csvMapping as never } : {}) })),
         mode,
         signal: controller.signal,
+        // A bound on one run, so a knowledge base whose chase explodes ends as 'resource limit' instead of holding a worker forever.
+        limits: { timeoutMs: Number(process.env.THENCE_REASON_TIMEOUT_MS) > 0 ? Number(process.env.THENCE_REASON_TIMEOUT_MS) : 2 * 3600 * 1000 },
         onProgress: (p) => {
           stage = p.stage;
           fraction = p.fraction;
