@@ -6,6 +6,7 @@ import { BINARY, EQUAL, UNARY, type CompiledAtom, type CompiledProgram, type Com
 import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
 import { mix2 } from './hash.js';
 import type { Guard } from './guard.js';
+import { DependencySets } from './dependencies.js';
 
 /** What closed a branch: the rule whose body matched (constraint, or an equality against ≉) and the matched elements. */
 export interface Clash {
@@ -13,6 +14,8 @@ export interface Clash {
   readonly env: readonly number[];
   /** For a clash of ≈ against ≉: the two elements. */
   readonly distinct?: readonly [number, number];
+  /** The choice points the clash depends on (a dependency set id). */
+  readonly dep: number;
 }
 
 export interface ChaseMark {
@@ -26,15 +29,16 @@ export interface ChaseMark {
 class InstanceList {
   rules: number[] = [];
   offsets: number[] = [];
+  deps: number[] = [];
   pool: number[] = [];
   get length(): number { return this.rules.length; }
-  push(rule: number, env: Int32Array, n: number): void {
-    this.rules.push(rule); this.offsets.push(this.pool.length);
+  push(rule: number, env: Int32Array, n: number, dep: number): void {
+    this.rules.push(rule); this.offsets.push(this.pool.length); this.deps.push(dep);
     for (let i = 0; i < n; i++) this.pool.push(env[i]!);
   }
   truncate(n: number): void {
     if (n >= this.rules.length) return;
-    this.pool.length = this.offsets[n]!; this.rules.length = n; this.offsets.length = n;
+    this.pool.length = this.offsets[n]!; this.rules.length = n; this.offsets.length = n; this.deps.length = n;
   }
 }
 
@@ -49,6 +53,11 @@ export class Chase {
   pendingCursor = 0;
   private readonly env: Int32Array;
   private readonly out: number[] = [];
+  /** Dependency set of the row matched at each join step. */
+  private readonly stepDep = new Int32Array(64);
+  readonly deps = new DependencySets();
+  /** Depth of the current choice point on the search stack (0: none). */
+  level = 0;
   private readonly maxVars: number;
 
   constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
@@ -70,8 +79,16 @@ export class Chase {
   }
 
   /** Adds ≉ in both directions (the relation is symmetric; storing both keeps joins one-directional). */
-  addDistinct(a: number, b: number, rule: number): void {
-    this.store.addBinary(DISTINCT_ID, a, b, rule); this.store.addBinary(DISTINCT_ID, b, a, rule);
+  addDistinct(a: number, b: number, rule: number, dep = 0): void {
+    this.store.addBinary(DISTINCT_ID, a, b, rule, dep); this.store.addBinary(DISTINCT_ID, b, a, rule, dep);
+  }
+
+  /** The dependency set of the merges that lead from e to its representative. */
+  chainDep(e: number): number {
+    const st = this.store;
+    let dep = 0;
+    while (st.rep[e] !== e && st.rep[e]! >= 0) { dep = this.deps.union(dep, st.mergeDep[e]!); e = st.rep[e]!; }
+    return dep;
   }
 
   /**
@@ -79,30 +96,32 @@ export class Chase {
    * older; the merged-away element's facts are rewritten onto the representative, and if it was anonymous its
    * descendants are pruned (which keeps the forest shape and termination). Returns false on a clash with ≉.
    */
-  merge(a: number, b: number, rule: number, env: readonly number[]): boolean {
-    const st = this.store;
+  merge(a: number, b: number, rule: number, env: readonly number[], dep = 0): boolean {
+    const st = this.store, deps = this.deps;
+    dep = deps.union(dep, deps.union(this.chainDep(a), this.chainDep(b)));
     a = st.find(a); b = st.find(b);
     if (a < 0 || b < 0 || a === b) return true;
     const to = Math.min(a, b), from = Math.max(a, b); // named ids come first, and older anonymous ids are smaller
-    st.setRep(from, to);
-    if (from >= st.named) this.prune(from);
-    for (let r = st.firstUnaryAbout(from); r >= 0; r = st.nextUnaryByElem(r)) st.addUnary(st.unaryPred[r]!, to, st.unaryRule[r]!);
+    st.setRep(from, to, dep);
+    if (from >= st.named) this.prune(from, dep);
+    for (let r = st.firstUnaryAbout(from); r >= 0; r = st.nextUnaryByElem(r)) st.addUnary(st.unaryPred[r]!, to, st.unaryRule[r]!, deps.union(st.unaryDep[r]!, dep));
     for (let r = st.firstBinaryWithSubject(from); r >= 0; r = st.nextBinaryWithSubject(r)) {
-      const o = st.find(st.binaryObj[r]!);
-      if (o >= 0) st.addBinary(st.binaryPred[r]!, to, o, st.binaryRule[r]!);
+      const o0 = st.binaryObj[r]!, o = st.find(o0);
+      if (o >= 0) st.addBinary(st.binaryPred[r]!, to, o, st.binaryRule[r]!, deps.union(deps.union(st.binaryDep[r]!, dep), this.chainDep(o0)));
     }
     for (let r = st.firstBinaryWithObject(from); r >= 0; r = st.nextBinaryWithObject(r)) {
-      const s = st.find(st.binarySubj[r]!);
-      if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!);
+      const s0 = st.binarySubj[r]!, s = st.find(s0);
+      if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!, deps.union(deps.union(st.binaryDep[r]!, dep), this.chainDep(s0)));
     }
-    if (st.hasBinary(DISTINCT_ID, to, to)) { this.clash = { rule, env: [...env], distinct: [to, from] }; return false; }
+    const clashRow = st.binaryRow(DISTINCT_ID, to, to);
+    if (clashRow >= 0) { this.clash = { rule, env: [...env], distinct: [to, from], dep: deps.union(dep, st.binaryDep[clashRow]!) }; return false; }
     return true;
   }
 
-  private prune(e: number): void {
+  private prune(e: number, dep: number): void {
     const st = this.store;
     for (let c = st.firstChild[e]!; c >= 0; c = st.nextSibling[c]!) {
-      if (st.rep[c] === c) { st.setRep(c, -1); this.prune(c); }
+      if (st.rep[c] === c) { st.setRep(c, -1, dep); this.prune(c, dep); }
     }
   }
 
@@ -132,15 +151,18 @@ export class Chase {
   /** Matches the rule with body atom `i` bound to the delta row, atoms before i to old rows, atoms after i to any. */
   private fromDelta(rule: CompiledRule, i: number, row: number, oldUnary: number, oldBinary: number): void {
     const st = this.store, env = this.env, atom = rule.body[i]!;
-    if (atom.kind === UNARY) env[atom.a] = st.unaryElem[row]!;
+    if (atom.kind === UNARY) { env[atom.a] = st.unaryElem[row]!; this.stepDep[0] = st.unaryDep[row]!; }
     else {
+      this.stepDep[0] = st.binaryDep[row]!;
       const s = st.binarySubj[row]!, o = st.binaryObj[row]!;
       if (atom.a === atom.b && s !== o) return;
       env[atom.a] = s; env[atom.b] = o;
     }
     const plan = rule.plans[i]!;
     this.join(plan, 1, i, oldUnary, oldBinary, () => {
-      this.out.push(rule.id);
+      let dep = 0;
+      for (let k = 0; k < plan.length; k++) dep = this.deps.union(dep, this.stepDep[k]!);
+      this.out.push(rule.id, dep);
       for (let v = 0; v < rule.bodyVars; v++) this.out.push(env[v]!);
       return false;
     });
@@ -158,11 +180,12 @@ export class Chase {
     if (a.kind === UNARY) {
       if (this.bound(plan, k, a.a, bound)) {
         const r = st.unaryRow(a.pred, env[a.a]!);
+        if (r >= 0) this.stepDep[k] = st.unaryDep[r]!;
         return r >= 0 && r < limitU && this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound);
       }
       for (let r = st.firstUnaryOf(a.pred); r >= 0; r = st.nextUnaryByPred(r)) {
         if (r >= limitU || !st.unaryValid(r)) continue;
-        env[a.a] = st.unaryElem[r]!;
+        env[a.a] = st.unaryElem[r]!; this.stepDep[k] = st.unaryDep[r]!;
         if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
       }
       return false;
@@ -170,6 +193,7 @@ export class Chase {
     const ba = this.bound(plan, k, a.a, bound), bb = this.bound(plan, k, a.b, bound);
     if (ba && bb) {
       const r = st.binaryRow(a.pred, env[a.a]!, env[a.b]!);
+      if (r >= 0) this.stepDep[k] = st.binaryDep[r]!;
       return r >= 0 && r < limitB && this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound);
     }
     if (ba) {
@@ -177,7 +201,7 @@ export class Chase {
         if (r >= limitB || !st.binaryValid(r)) continue;
         const o = st.binaryObj[r]!;
         if (a.a === a.b && o !== env[a.a]) continue;
-        env[a.b] = o;
+        env[a.b] = o; this.stepDep[k] = st.binaryDep[r]!;
         if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
       }
       return false;
@@ -185,7 +209,7 @@ export class Chase {
     if (bb) {
       for (let r = st.firstBinaryTo(a.pred, env[a.b]!); r >= 0; r = st.nextBinaryTo(r)) {
         if (r >= limitB || !st.binaryValid(r)) continue;
-        env[a.a] = st.binarySubj[r]!;
+        env[a.a] = st.binarySubj[r]!; this.stepDep[k] = st.binaryDep[r]!;
         if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
       }
       return false;
@@ -194,7 +218,7 @@ export class Chase {
       if (r >= limitB || !st.binaryValid(r)) continue;
       const s = st.binarySubj[r]!, o = st.binaryObj[r]!;
       if (a.a === a.b && s !== o) continue;
-      env[a.a] = s; env[a.b] = o;
+      env[a.a] = s; env[a.b] = o; this.stepDep[k] = st.binaryDep[r]!;
       if (this.join(plan, k + 1, deltaIndex, oldUnary, oldBinary, onMatch, bound)) return true;
     }
     return false;
@@ -213,28 +237,31 @@ export class Chase {
     let i = 0;
     while (i < out.length) {
       const rule = prog.rules[out[i]!]!;
-      let dead = false;
-      for (let v = 0; v < rule.bodyVars; v++) { const e = st.find(out[i + 1 + v]!); if (e < 0) dead = true; env[v] = e; }
-      i += 1 + rule.bodyVars;
+      let dead = false, dep = out[i + 1]!;
+      for (let v = 0; v < rule.bodyVars; v++) {
+        const e0 = out[i + 2 + v]!, e = st.find(e0);
+        if (e < 0) dead = true; else if (e !== e0) dep = this.deps.union(dep, this.chainDep(e0));
+        env[v] = e;
+      }
+      i += 2 + rule.bodyVars;
       if (dead) continue;
       switch (rule.shape) {
         case 'datalog':
-          for (const a of rule.head[0]!.atoms) this.addAtom(a, rule.id);
+          for (const a of rule.head[0]!.atoms) this.addAtom(a, rule.id, dep);
           break;
         case 'constraint':
-          this.clash = { rule: rule.id, env: Array.from(env.subarray(0, rule.bodyVars)) };
+          this.clash = { rule: rule.id, env: Array.from(env.subarray(0, rule.bodyVars)), dep };
           return false;
         case 'equality':
           for (const a of rule.head[0]!.atoms) {
-            if (!this.merge(env[a.a]!, env[a.b]!, rule.id, Array.from(env.subarray(0, rule.bodyVars)))) return false;
-            for (let v = 0; v < rule.bodyVars; v++) env[v] = st.find(env[v]!);
+            if (!this.merge(env[a.a]!, env[a.b]!, rule.id, Array.from(env.subarray(0, rule.bodyVars)), dep)) return false;
           }
           break;
         case 'disjunctive':
-          if (!this.holds(rule)) this.pending.push(rule.id, env, rule.bodyVars);
+          if (!this.holds(rule)) this.pending.push(rule.id, env, rule.bodyVars, dep);
           break;
         case 'existential':
-          if (!this.holds(rule)) this.triggers.push(rule.id, env, rule.bodyVars);
+          if (!this.holds(rule)) this.triggers.push(rule.id, env, rule.bodyVars, dep);
           break;
       }
     }
@@ -242,12 +269,16 @@ export class Chase {
   }
 
   /** Adds a head atom under the current env (elements through `find`). */
-  addAtom(a: CompiledAtom, rule: number): void {
-    const st = this.store, env = this.env;
-    if (a.kind === UNARY) { const e = st.find(env[a.a]!); if (e >= 0) st.addUnary(a.pred, e, rule); return; }
-    const s = st.find(env[a.a]!), o = st.find(env[a.b]!);
-    if (s < 0 || o < 0) return;
-    if (a.pred === DISTINCT_ID) this.addDistinct(s, o, rule); else st.addBinary(a.pred, s, o, rule);
+  addAtom(a: CompiledAtom, rule: number, dep: number): void {
+    const st = this.store, env = this.env, deps = this.deps;
+    const x = env[a.a]!, s = st.find(x);
+    if (s < 0) return;
+    if (s !== x) dep = deps.union(dep, this.chainDep(x));
+    if (a.kind === UNARY) { st.addUnary(a.pred, s, rule, dep); return; }
+    const y = env[a.b]!, o = st.find(y);
+    if (o < 0) return;
+    if (o !== y) dep = deps.union(dep, this.chainDep(y));
+    if (a.pred === DISTINCT_ID) this.addDistinct(s, o, rule, dep); else st.addBinary(a.pred, s, o, rule, dep);
   }
 
   /** Returns true if some head disjunct of the rule already holds for the body match in env (restricted chase test). */
@@ -265,16 +296,26 @@ export class Chase {
   /** Loads instance `i` of a list into env (elements through find); returns false if an element was pruned. */
   loadInstance(list: InstanceList, i: number): CompiledRule | null {
     const rule = this.program.rules[list.rules[i]!]!, off = list.offsets[i]!;
-    for (let v = 0; v < rule.bodyVars; v++) { const e = this.store.find(list.pool[off + v]!); if (e < 0) return null; this.env[v] = e; }
+    let dep = list.deps[i]!;
+    for (let v = 0; v < rule.bodyVars; v++) {
+      const e0 = list.pool[off + v]!, e = this.store.find(e0);
+      if (e < 0) return null;
+      if (e !== e0) dep = this.deps.union(dep, this.chainDep(e0));
+      this.env[v] = e;
+    }
+    this.instanceDep = dep;
     return rule;
   }
 
+  /** Dependency set of the instance last loaded by `loadInstance` (its body match and the merges it went through). */
+  instanceDep = 0;
+
   /** Applies head disjunct `d` of the rule loaded in env. Returns false on a clash. */
-  applyDisjunct(rule: CompiledRule, d: number): boolean {
+  applyDisjunct(rule: CompiledRule, d: number, dep: number): boolean {
     const env = Array.from(this.env.subarray(0, rule.bodyVars));
     for (const a of rule.head[d]!.atoms) {
-      if (a.kind === EQUAL) { if (!this.merge(this.env[a.a]!, this.env[a.b]!, rule.id, env)) return false; }
-      else this.addAtom(a, rule.id);
+      if (a.kind === EQUAL) { if (!this.merge(this.env[a.a]!, this.env[a.b]!, rule.id, env, dep)) return false; }
+      else this.addAtom(a, rule.id, dep);
     }
     return true;
   }
@@ -347,7 +388,8 @@ export class Chase {
       const d = rule.head[0]!;
       for (const v of d.exists) this.env[v] = st.newElement(centre);
       this.guard.elements(st.elementCount);
-      for (const a of d.atoms) this.addAtom(a, rule.id);
+      const dep = this.instanceDep;
+      for (const a of d.atoms) this.addAtom(a, rule.id, dep);
       applied++;
     }
     return applied;

@@ -49,6 +49,8 @@ export interface EntailStats {
   anonymousElements: number;
   models: number;
   cachedComponents: number;
+  /** Largest fact store of one component, in bytes (columns, indexes and hash tables). */
+  storeBytes: number;
 }
 
 export interface EntailOptions {
@@ -82,7 +84,7 @@ function components(input: ChaseInput): { of: Int32Array; count: number } {
 export async function entail(program: RuleProgram, input: ChaseInput, sink: EntailedSink, options: EntailOptions): Promise<EntailOutcome> {
   // Classes and properties that occur only in the data are vocabulary too: their facts are output.
   const compiled = compileProgram({ ...program, classes: [...program.classes, ...input.classNames], properties: [...program.properties, ...input.propertyNames] });
-  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, models: 0, cachedComponents: 0 };
+  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, models: 0, cachedComponents: 0, storeBytes: 0 };
   const classIds = input.classNames.map((c) => compiled.unaryIds.get(c) ?? -1);
   const propIds = input.propertyNames.map((p) => compiled.binaryIds.get(p) ?? -1);
   const plain = options.path === 'plain';
@@ -217,21 +219,25 @@ function factsOfKeys(keys: Iterable<string>): NamedFacts {
   return out;
 }
 
-/** True if the fact with this key holds in the chase's current branch. */
-function holdsKey(chase: Chase, key: string): boolean {
-  const st = chase.store, nums = key.slice(1).split(' ').map(Number);
-  if (key[0] === 'u') return st.hasUnary(nums[0]!, st.find(nums[1]!));
-  if (key[0] === 'b') return st.hasBinary(nums[0]!, st.find(nums[1]!), st.find(nums[2]!));
-  return st.find(nums[0]!) === st.find(nums[1]!);
+/** If the fact with this key holds in the chase's current branch, its dependency set; else -1. */
+function holdsKey(chase: Chase, key: string): number {
+  const st = chase.store, deps = chase.deps, nums = key.slice(1).split(' ').map(Number);
+  const a = st.find(nums[0]!);
+  if (key[0] === 's') return a === st.find(nums[1]!) ? deps.union(chase.chainDep(nums[0]!), chase.chainDep(nums[1]!)) : -1;
+  const e = st.find(nums[1]!);
+  if (key[0] === 'u') { const r = st.unaryRow(nums[0]!, e); return r < 0 ? -1 : deps.union(st.unaryDep[r]!, chase.chainDep(nums[1]!)); }
+  const o = st.find(nums[2]!);
+  const r = st.binaryRow(nums[0]!, e, o);
+  return r < 0 ? -1 : deps.union(deps.union(st.binaryDep[r]!, chase.chainDep(nums[1]!)), chase.chainDep(nums[2]!));
 }
 
 /**
- * Chases one component. A model reached without any choice is the only one (always so for Horn programs). Otherwise
- * the cautious-consequence loop: after each model the candidates shrink to what it shares with the earlier ones, and
- * a ground constraint (all remaining candidates → ⊥) closes every branch in which all of them hold, so each further
- * model removes at least one candidate and the search visits at most |candidates| + 1 models.
- * Optimised: facts true before the first choice are certain (in every model) and are never candidates.
- * Plain: every fact of the first model is a candidate (nothing is taken as certain).
+ * Chases one component. A model reached without any choice is the only one (always so for Horn programs).
+ * Otherwise the facts true before the first choice are certain, and the candidates are the other facts of the first
+ * model. Optimised: for each candidate f still open, search for a model with the ground constraint f → ⊥; if one
+ * exists, f and every candidate it lacks are not entailed, else f is; each search backjumps to the choices f depends
+ * on. Plain: one chronological search with the constraint "all remaining candidates → ⊥", shrinking the candidates
+ * to what each new model shares with the earlier ones (at most |candidates| + 1 models).
  */
 function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; clash?: ClashReport | null } {
   const chase = new Chase(program, named, guard);
@@ -241,22 +247,46 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   let certain = new Set<string>();
   let candidates: string[] | null = null;
   let only: NamedFacts | null = null;
-  const models = search(chase, guard, {
-    onRoot: plain ? undefined : (c) => { certain = keyOf(namedFacts(c)); },
-    onClash: (c) => { if (firstClash === undefined) firstClash = clashReport(c); },
-    violated: (c) => candidates !== null && candidates.every((k) => holdsKey(c, k)),
+  const onClash = (c: Chase) => { if (firstClash === undefined) firstClash = clashReport(c); };
+  let models = search(chase, guard, {
+    onRoot: (c) => { certain = keyOf(namedFacts(c)); },
+    onClash,
+    violated: plain ? (c) => allHold(c, candidates) : undefined,
     onModel: (c, choices) => {
       if (choices === 0 && candidates === null) { only = namedFacts(c); return true; }
       const model = keyOf(namedFacts(c));
       candidates = candidates === null ? [...model].filter((k) => !certain.has(k)) : candidates.filter((k) => model.has(k));
-      return candidates.length === 0;
+      return !plain || candidates.length === 0;
     },
-  });
-  stats.models += models;
+  }, { backjump: !plain });
   if (models === 0) {
+    stats.models += models;
     if (firstClash === undefined && chase.clash !== null) firstClash = clashReport(chase);
     return { clash: firstClash ?? null };
   }
-  if (only !== null) return { facts: only };
-  return { facts: factsOfKeys([...certain, ...(candidates ?? [])]) };
+  if (only !== null) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { facts: only }; }
+  const entailed: string[] = [];
+  if (!plain) {
+    let open = candidates ?? [];
+    while (open.length > 0) {
+      const f = open.pop()!;
+      let model: Set<string> | null = null;
+      models += search(chase, guard, {
+        violated: (c) => holdsKey(c, f),
+        onModel: (c) => { model = keyOf(namedFacts(c)); return true; },
+      });
+      if (model === null) entailed.push(f);
+      else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
+    }
+  } else entailed.push(...(candidates ?? []));
+  stats.models += models;
+  stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength);
+  return { facts: factsOfKeys([...certain, ...entailed]) };
+}
+
+/** The plain path's constraint: -1 unless every remaining candidate holds (then -2: taken to depend on every choice). */
+function allHold(chase: Chase, candidates: readonly string[] | null): number {
+  if (candidates === null) return -1;
+  for (const k of candidates) if (holdsKey(chase, k) < 0) return -1;
+  return -2;
 }

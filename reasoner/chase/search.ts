@@ -1,5 +1,6 @@
 // The disjunctive chase as a depth-first search: branch on a recorded disjunction whose head does not hold yet
-// (lazy branching, Motik et al. 2009 §5), undo to the choice point on ⊥, and report every complete open branch.
+// (lazy branching, Motik, Shearer, Horrocks, JAIR 2009, §5), and on ⊥ jump back to the newest choice point the clash
+// depends on (backjumping, ibid. §5.1), trying its next disjunct; report every complete open branch.
 
 import type { Chase } from './engine.js';
 import type { Guard } from './guard.js';
@@ -9,80 +10,100 @@ export interface SearchHooks {
   onModel(chase: Chase, choices: number): boolean;
   /** Called once, before the first choice (the deterministic part is then saturated: its facts are certain). */
   onRoot?(chase: Chase): void;
-  /** Called after each saturation; returning true closes the branch (the cautious loop's ground constraint). */
-  violated?(chase: Chase): boolean;
+  /**
+   * Called after each saturation: a ground constraint of the caller. Returns -1 if it holds, else the dependency set
+   * of the facts that violate it (the branch then closes as on ⊥), or -2 when that is unknown (every choice).
+   */
+  violated?(chase: Chase): number;
   /** Called on each branch closed by ⊥, while the clashing facts are still in the store. */
   onClash?(chase: Chase): void;
 }
 
 export interface SearchOptions {
-  /** Plain schedule: branch on disjunctions before creating elements (instead of Datalog-first and generation first). */
-  readonly eager?: boolean;
+  /** Jump back over choice points a clash does not depend on (default true); false: chronological backtracking. */
+  readonly backjump?: boolean;
 }
 
 interface ChoicePoint {
   readonly mark: ReturnType<Chase['mark']>;
   readonly instance: number;
+  readonly instanceDep: number;
   next: number;
   readonly count: number;
+  /** Union of the dependency sets of the clashes of the disjuncts tried so far, without this level. */
+  failDep: number;
 }
 
 /** Runs saturation and generation rounds until nothing changes; false on ⊥. */
-function run(chase: Chase, eager: boolean): boolean {
+function run(chase: Chase): boolean {
   for (;;) {
     if (!chase.saturate()) return false;
-    if (eager && nextChoice(chase, false) >= 0) return true;
     if (chase.generate() === 0) return true;
   }
 }
 
 /** Returns the first recorded disjunction that does not hold, or -1; advances the cursor over the held prefix. */
-function nextChoice(chase: Chase, advance = true): number {
+function nextChoice(chase: Chase): number {
   const list = chase.pending;
   let prefix = true;
   for (let i = chase.pendingCursor; i < list.length; i++) {
     const rule = chase.loadInstance(list, i);
-    if (rule === null || chase.holds(rule)) { if (prefix && advance) chase.pendingCursor = i + 1; continue; }
+    if (rule === null || chase.holds(rule)) { if (prefix) chase.pendingCursor = i + 1; continue; }
     prefix = false;
     return i;
   }
   return -1;
 }
 
-/** Searches all branches (or until onModel stops it). Returns the number of models seen. */
+/**
+ * Searches the branches from the chase's current state (until onModel stops it). On return the chase is back in its
+ * state before the first choice (saturated). Returns the number of models seen.
+ */
 export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: SearchOptions = {}): number {
-  const eager = options.eager ?? false;
+  const backjump = options.backjump ?? true;
+  const deps = chase.deps;
   const stack: ChoicePoint[] = [];
   let models = 0, rootSeen = false;
-  let ok = run(chase, eager);
+  chase.level = 0;
+  let ok = run(chase), closedBy = 0;
+  const finish = () => { if (stack.length > 0) chase.undo(stack[0]!.mark); chase.level = 0; return models; };
+  const apply = (top: ChoicePoint): boolean => {
+    guard.branch();
+    const rule = chase.loadInstance(chase.pending, top.instance)!;
+    chase.level = stack.length;
+    return chase.applyDisjunct(rule, top.next, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
+  };
   for (;;) {
-    if (ok && hooks.violated?.(chase)) ok = false;
+    if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
+    else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
       const choice = nextChoice(chase);
       if (choice < 0) {
         models++;
-        if (hooks.onModel(chase, stack.length)) return models;
+        if (hooks.onModel(chase, stack.length)) return finish();
         ok = false;
+        closedBy = -1; // a model closed by the caller depends on every choice
       } else {
         if (!rootSeen) { rootSeen = true; hooks.onRoot?.(chase); }
-        guard.branch();
         const rule = chase.loadInstance(chase.pending, choice)!;
-        stack.push({ mark: chase.mark(), instance: choice, next: 0, count: rule.head.length });
-        ok = chase.applyDisjunct(rule, 0) && run(chase, eager);
+        stack.push({ mark: chase.mark(), instance: choice, instanceDep: chase.instanceDep, next: 0, count: rule.head.length, failDep: 0 });
+        ok = apply(stack[stack.length - 1]!);
         continue;
       }
     } else if (chase.clash !== null) hooks.onClash?.(chase);
-    // Backtrack to the newest choice point with an untried disjunct.
+    // Backjump: to the newest choice point the closing facts depend on (chronologically when not backjumping).
+    let dep = closedBy;
     for (;;) {
-      const top = stack[stack.length - 1];
-      if (top === undefined) return models;
+      if (stack.length === 0) return finish();
+      const level = !backjump || dep < 0 ? stack.length : deps.newest(dep);
+      if (level === 0) { return finish(); }  // the clash follows from the input alone: no branch can avoid it
+      stack.length = level;
+      const top = stack[level - 1]!;
+      top.failDep = dep < 0 || top.failDep < 0 ? -1 : deps.union(top.failDep, deps.below(dep, level));
       chase.undo(top.mark);
-      if (++top.next < top.count) {
-        guard.branch();
-        const rule = chase.loadInstance(chase.pending, top.instance)!;
-        ok = chase.applyDisjunct(rule, top.next) && run(chase, eager);
-        break;
-      }
+      if (++top.next < top.count) { ok = apply(top); break; }
+      // Every disjunct failed: the failure depends on what the clashes depended on, and on the instance itself.
+      dep = top.failDep < 0 ? -1 : deps.union(top.failDep, top.instanceDep);
       stack.pop();
     }
   }

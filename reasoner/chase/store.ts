@@ -40,6 +40,8 @@ export class FactStore {
   unaryElem = new Int32Array(64);
   /** The rule that derived the row (-1: input). */
   unaryRule = new Int32Array(64);
+  /** The dependency set of the row (see dependencies.ts). */
+  unaryDep = new Int32Array(64);
   private unaryNextByPred = new Int32Array(64);
   private unaryNextByElem = new Int32Array(64);
   private unaryHeadByPred: Int32Array;
@@ -50,6 +52,9 @@ export class FactStore {
   binarySubj = new Int32Array(64);
   binaryObj = new Int32Array(64);
   binaryRule = new Int32Array(64);
+  binaryDep = new Int32Array(64);
+  /** For a merged element: the dependency set of the merge. */
+  mergeDep = new Int32Array(64);
   private binaryNextByPred = new Int32Array(64);
   private binaryNextByPS = new Int32Array(64);
   private binaryNextByPO = new Int32Array(64);
@@ -117,7 +122,7 @@ export class FactStore {
   hasUnary(pred: number, e: number): boolean { return this.unaryRow(pred, e) >= 0; }
 
   /** Adds pred(e) for a representative e; returns false if already present. */
-  addUnary(pred: number, e: number, rule: number): boolean {
+  addUnary(pred: number, e: number, rule: number, dep = 0): boolean {
     const mask = this.unarySlots.length - 1;
     let i = mix2(pred, e) & mask;
     for (;;) {
@@ -128,7 +133,7 @@ export class FactStore {
     }
     const row = this.unaryCount++;
     if (row >= this.unaryPred.length) this.growUnary(row + 1);
-    this.unaryPred[row] = pred; this.unaryElem[row] = e; this.unaryRule[row] = rule;
+    this.unaryPred[row] = pred; this.unaryElem[row] = e; this.unaryRule[row] = rule; this.unaryDep[row] = dep;
     this.unaryNextByPred[row] = this.unaryHeadByPred[pred]!; this.unaryHeadByPred[pred] = row;
     this.unaryNextByElem[row] = this.unaryByElement[e]!; this.unaryByElement[e] = row;
     this.labelHashA[e] = (this.labelHashA[e]! + this.keyA[pred]!) | 0;
@@ -162,7 +167,7 @@ export class FactStore {
   hasBinary(pred: number, s: number, o: number): boolean { return this.binaryRow(pred, s, o) >= 0; }
 
   /** Adds pred(s, o); returns false if present. */
-  addBinary(pred: number, s: number, o: number, rule: number): boolean {
+  addBinary(pred: number, s: number, o: number, rule: number, dep = 0): boolean {
     const mask = this.binarySlots.length - 1;
     let i = mix3(pred, s, o) & mask;
     for (;;) {
@@ -173,7 +178,7 @@ export class FactStore {
     }
     const row = this.binaryCount++;
     if (row >= this.binaryPred.length) this.growBinary(row + 1);
-    this.binaryPred[row] = pred; this.binarySubj[row] = s; this.binaryObj[row] = o; this.binaryRule[row] = rule;
+    this.binaryPred[row] = pred; this.binarySubj[row] = s; this.binaryObj[row] = o; this.binaryRule[row] = rule; this.binaryDep[row] = dep;
     this.binaryNextByPred[row] = this.binaryHeadByPred[pred]!; this.binaryHeadByPred[pred] = row;
     this.binaryNextByPS[row] = this.headByPS.get(pred, s); this.headByPS.set(pred, s, row);
     this.binaryNextByPO[row] = this.headByPO.get(pred, o); this.headByPO.set(pred, o, row);
@@ -206,9 +211,10 @@ export class FactStore {
   // ---- equality ----
 
   /** Points `from` to `to` (both representatives) or prunes `from` (to = -1); undone by `undo`. */
-  setRep(from: number, to: number): void {
+  setRep(from: number, to: number, dep = 0): void {
     this.mergeTrail.push(from, this.rep[from]!);
     this.rep[from] = to;
+    this.mergeDep[from] = dep;
   }
 
   // ---- trail ----
@@ -250,7 +256,7 @@ export class FactStore {
 
   /** Bytes held by the store's arrays. */
   get byteLength(): number {
-    const arrays = [this.rep, this.parent, this.depth, this.firstChild, this.nextSibling, this.labelHashA, this.labelHashB, this.labelSize,
+    const arrays = [this.rep, this.mergeDep, this.unaryDep, this.binaryDep, this.parent, this.depth, this.firstChild, this.nextSibling, this.labelHashA, this.labelHashB, this.labelSize,
       this.unaryByElement, this.binaryBySubject, this.binaryByObject, this.unaryPred, this.unaryElem, this.unaryRule, this.unaryNextByPred,
       this.unaryNextByElem, this.unarySlots, this.binaryPred, this.binarySubj, this.binaryObj, this.binaryRule, this.binaryNextByPred,
       this.binaryNextByPS, this.binaryNextByPO, this.binaryNextBySubj, this.binaryNextByObj, this.binarySlots];
@@ -287,7 +293,7 @@ export class FactStore {
   }
 
   private growElements(min: number): void {
-    this.rep = growInt32(this.rep, min); this.parent = growInt32(this.parent, min); this.depth = growInt32(this.depth, min);
+    this.rep = growInt32(this.rep, min); this.mergeDep = growInt32(this.mergeDep, min); this.parent = growInt32(this.parent, min); this.depth = growInt32(this.depth, min);
     this.firstChild = growInt32(this.firstChild, min); this.nextSibling = growInt32(this.nextSibling, min);
     this.labelHashA = growInt32(this.labelHashA, min); this.labelHashB = growInt32(this.labelHashB, min); this.labelSize = growInt32(this.labelSize, min);
     this.unaryByElement = growInt32(this.unaryByElement, min); this.binaryBySubject = growInt32(this.binaryBySubject, min);
@@ -296,12 +302,13 @@ export class FactStore {
 
   private growUnary(min: number): void {
     this.unaryPred = growInt32(this.unaryPred, min); this.unaryElem = growInt32(this.unaryElem, min); this.unaryRule = growInt32(this.unaryRule, min);
+    this.unaryDep = growInt32(this.unaryDep, min);
     this.unaryNextByPred = growInt32(this.unaryNextByPred, min); this.unaryNextByElem = growInt32(this.unaryNextByElem, min);
   }
 
   private growBinary(min: number): void {
     this.binaryPred = growInt32(this.binaryPred, min); this.binarySubj = growInt32(this.binarySubj, min); this.binaryObj = growInt32(this.binaryObj, min);
-    this.binaryRule = growInt32(this.binaryRule, min); this.binaryNextByPred = growInt32(this.binaryNextByPred, min);
+    this.binaryRule = growInt32(this.binaryRule, min); this.binaryDep = growInt32(this.binaryDep, min); this.binaryNextByPred = growInt32(this.binaryNextByPred, min);
     this.binaryNextByPS = growInt32(this.binaryNextByPS, min); this.binaryNextByPO = growInt32(this.binaryNextByPO, min);
     this.binaryNextBySubj = growInt32(this.binaryNextBySubj, min); this.binaryNextByObj = growInt32(this.binaryNextByObj, min);
   }

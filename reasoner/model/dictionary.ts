@@ -10,8 +10,9 @@
  *
  * Storage: the UTF-8 bytes of all terms in one growable byte arena, an Int32Array of start offsets, and an
  * open-addressing hash table (FNV-1a over the bytes) of ids with their hashes. No JS string is kept per term:
- * a term costs its UTF-8 length + 4 bytes (offset) + 8–16 bytes of table (load ≤ 0.5), i.e. about
- * length + 20 bytes, against ≈ length + 50 for a Map<string, number> with a string array. `internBytes` lets
+ * a term costs its UTF-8 length (up to 2× while the arena grows) + 4–8 bytes of offsets + 16–32 bytes of
+ * table (load 0.25–0.5), i.e. about length + 30 bytes, against ≈ length + 50 for a Map<string, number>
+ * with a string array (tests/bench/intake.ts prints the measured figure). `internBytes` lets
  * readers intern straight from an input chunk, so a repeated term never becomes a string at all (the hot
  * path of dataset intake). `term(id)` decodes the bytes (a fresh string each call: callers that print many
  * terms may cache).

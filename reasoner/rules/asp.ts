@@ -14,6 +14,8 @@ export interface AspExport {
   readonly text: string;
   /** Rules left out because they have an existential head (ASP has no existential quantification). */
   readonly omitted: number;
+  /** Predicate name → ASP identifier, for writing facts against the program. */
+  readonly predicateIds: ReadonlyMap<string, string>;
 }
 
 /** Writes the existential-free rules of the program as an ASP-Core-2 program. Disjunction uses `;` (ASP-Core-2 §2.2). */
@@ -60,11 +62,18 @@ export function toAsp(program: RuleProgram): AspExport {
     const head = r.head.map((d) => atom(d.atoms[0]!)).join(' ; ');
     lines.push(head === '' ? `:- ${body.join(', ')}.` : `${head} :- ${body.join(', ')}.`);
   }
-  lines.push('% every element satisfies top; equality is a congruence');
-  for (const p of unary) lines.push(`top(X) :- ${ids.get(p)}(X).`);
-  for (const p of binary) lines.push(`top(X) :- ${ids.get(p)}(X,_).`, `top(Y) :- ${ids.get(p)}(_,Y).`);
-  lines.push('eq(X,X) :- top(X).', 'eq(Y,X) :- eq(X,Y).', 'eq(X,Z) :- eq(X,Y), eq(Y,Z).', ':- eq(X,Y), neq(X,Y).', 'neq(Y,X) :- neq(X,Y).');
-  for (const p of unary) lines.push(`${ids.get(p)}(Y) :- ${ids.get(p)}(X), eq(X,Y).`);
-  for (const p of binary) lines.push(`${ids.get(p)}(Y,Z) :- ${ids.get(p)}(X,Z), eq(X,Y).`, `${ids.get(p)}(X,Z) :- ${ids.get(p)}(X,Y), eq(Y,Z).`);
-  return { text: lines.join('\n') + '\n', omitted };
+  const text = lines.join('\n');
+  const usesTop = text.includes('top('), usesEquality = text.includes('eq(');
+  if (usesTop || usesEquality) {
+    lines.push('% every element satisfies top');
+    for (const p of unary) lines.push(`top(X) :- ${ids.get(p)}(X).`);
+    for (const p of binary) lines.push(`top(X) :- ${ids.get(p)}(X,_).`, `top(Y) :- ${ids.get(p)}(_,Y).`);
+  }
+  if (usesEquality) {
+    // Only programs with ≈ or ≉ need the equality axioms (they make grounding much larger).
+    lines.push('% equality is a congruence', 'eq(X,X) :- top(X).', 'eq(Y,X) :- eq(X,Y).', 'eq(X,Z) :- eq(X,Y), eq(Y,Z).', ':- eq(X,Y), neq(X,Y).', 'neq(Y,X) :- neq(X,Y).');
+    for (const p of unary) lines.push(`${ids.get(p)}(Y) :- ${ids.get(p)}(X), eq(X,Y).`);
+    for (const p of binary) lines.push(`${ids.get(p)}(Y,Z) :- ${ids.get(p)}(X,Z), eq(X,Y).`, `${ids.get(p)}(X,Z) :- ${ids.get(p)}(X,Y), eq(Y,Z).`);
+  }
+  return { text: lines.join('\n') + '\n', omitted, predicateIds: ids };
 }

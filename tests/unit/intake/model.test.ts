@@ -32,13 +32,13 @@ describe('TermDictionary', () => {
 
   it('grows past many rehashes and keeps every term', () => {
     const d = new TermDictionary();
-    for (let i = 0; i < 200_000; i++) d.intern(`http://e/i${i}`);
-    expect(d.size).toBe(200_000);
+    for (let i = 0; i < 150_000; i++) d.intern(`http://e/i${i}`);
+    expect(d.size).toBe(150_000);
     expect(d.id('http://e/i123456')).toBe(123_456);
-    expect(d.term(199_999)).toBe('http://e/i199999');
+    expect(d.term(149_999)).toBe('http://e/i149999');
     expect(d.id('http://e/missing')).toBe(-1);
-    // length + ~20 bytes per term (see dictionary.ts); the terms average 15 bytes.
-    expect(d.byteLength / d.size).toBeLessThan(60);
+    // At most 2 × length + 40 bytes per term with growth slack (see dictionary.ts); these terms average 15 bytes.
+    expect(d.byteLength / d.size).toBeLessThan(2 * 15 + 40);
   });
 
   it('refuses ids never given out', () => {

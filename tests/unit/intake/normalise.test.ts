@@ -126,7 +126,7 @@ describe('normal form agrees with the semantics on finite models (Description Lo
       const { axioms, definitions } = normaliseTraced(sub, sup);
       const J = extension(I, definitions, [0]);
       expect(axioms.every((a) => satisfies(J, a))).toBe(holds);
-    }), { numRuns: 1500 });
+    }), { numRuns: 800 });
   });
 
   it('any extension of the fresh names that satisfies the normal form makes C ⊑ D true (no unsound shortcut)', () => {
@@ -134,7 +134,7 @@ describe('normal form agrees with the semantics on finite models (Description Lo
       const { axioms, definitions } = normaliseTraced(sub, sup);
       const J = extension(I, definitions, noise);
       if (axioms.every((a) => satisfies(J, a))) expect(evaluate(I, sub) & ~evaluate(I, sup)).toBe(0);
-    }), { numRuns: 1500 });
+    }), { numRuns: 800 });
   });
 
   it('fixed case found by the property above: A ⊑ ≤1 r.(¬D ⊓ (A ⊔ B)) keeps D when splitting the disjunction', () => {
