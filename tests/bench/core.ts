@@ -1,0 +1,141 @@
+// Benchmarks of the reasoner core (figures, not assertions). Run: npx tsx tests/bench/core.ts [--part 1|2|3] [--runs N]
+// (1) Horn path against clingo on the same Datalog program with 1M+ input facts: wall-time ratio, bytes per fact;
+// (2) a disjunctive knowledge base with number restrictions and 10k individuals; (3) rewriting size and time.
+
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { rewriteOntology } from '../../reasoner/rewrite/rules-from-normal.js';
+import { toAsp } from '../../reasoner/rules/asp.js';
+import { entail, type ChaseInput, type EntailedSink } from '../../reasoner/chase/entail.js';
+import { Guard } from '../../reasoner/chase/guard.js';
+import { disjunctiveCatalogue, hornDatalogOntology, mixedNormalForm, random, randomAbox } from './core-generators.js';
+
+const args = process.argv.slice(2);
+const part = args.includes('--part') ? Number(args[args.indexOf('--part') + 1]) : 0;
+const runs = args.includes('--runs') ? Number(args[args.indexOf('--runs') + 1]) : 3;
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+const mib = (b: number) => `${(b / 2 ** 20).toFixed(1)} MiB`;
+
+class CountingSink implements EntailedSink {
+  n = 0;
+  unary(): void { this.n++; }
+  binary(): void { this.n++; }
+  same(): void { this.n++; }
+}
+
+/** Runs clingo on a file; returns wall ms and peak resident bytes (from /usr/bin/time -v). */
+function clingo(file: string): { ms: number; peak: number } {
+  const t0 = performance.now();
+  let err = '';
+  try {
+    execFileSync('/usr/bin/time', ['-v', '/usr/bin/clingo', '--mode=clingo', '-q', file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'], maxBuffer: 1 << 26 });
+  } catch (e) {
+    const x = e as { status?: number; stderr?: string };
+    if (x.status !== 10 && x.status !== 30 && x.status !== 20) throw e;
+    err = x.stderr ?? '';
+  }
+  const ms = performance.now() - t0;
+  const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(err);
+  return { ms, peak: m ? Number(m[1]) * 1024 : NaN };
+}
+
+function aspFacts(input: ChaseInput, ids: ReadonlyMap<string, string>): string {
+  const out: string[] = [];
+  for (let i = 0; i < input.classPred.length; i++) out.push(`${ids.get(input.classNames[input.classPred[i]!]!)}(i${input.classInd[i]}).`);
+  for (let i = 0; i < input.propPred.length; i++) out.push(`${ids.get(input.propertyNames[input.propPred[i]!]!)}(i${input.propSubj[i]},i${input.propObj[i]}).`);
+  return out.join('\n') + '\n';
+}
+
+async function hornAgainstClingo(): Promise<void> {
+  console.log('== (1) Horn Datalog program: the chase against clingo on the same program');
+  const onto = hornDatalogOntology(60, 10);
+  const program = rewriteOntology({ axioms: onto.axioms, classes: onto.classes, properties: onto.properties, assertions: [] });
+  const input = randomAbox(250_000, 1, 3, 60, 10);
+  const inputFacts = input.classPred.length + input.propPred.length;
+  const asp = toAsp(program);
+  const dir = mkdtempSync(join(tmpdir(), 'thence-bench-'));
+  const file = join(dir, 'horn.lp');
+  writeFileSync(file, asp.text + aspFacts(input, asp.predicateIds));
+  const ours: number[] = [], theirs: number[] = [];
+  let facts = 0, storeBytes = 0, rssDelta = 0, clingoPeak = 0;
+  for (let r = 0; r < runs; r++) {
+    global.gc?.();
+    const rss0 = process.memoryUsage().rss;
+    const sink = new CountingSink();
+    const t0 = performance.now();
+    const outcome = await entail(program, input, sink, { guard: new Guard() });
+    ours.push(performance.now() - t0);
+    rssDelta = Math.max(rssDelta, process.memoryUsage().rss - rss0);
+    facts = sink.n; storeBytes = outcome.stats.storeBytes;
+    const c = clingo(file);
+    theirs.push(c.ms); clingoPeak = c.peak;
+  }
+  rmSync(dir, { recursive: true, force: true });
+  console.log(`input facts: ${inputFacts}; entailed facts (named): ${facts}; rules: ${program.rules.length}`);
+  console.log(`chase: median ${median(ours).toFixed(0)} ms over ${runs} runs; clingo (grounding + solving, reading its text input): median ${median(theirs).toFixed(0)} ms`);
+  console.log(`wall-time ratio chase / clingo: ${(median(ours) / median(theirs)).toFixed(2)} (target ≤ 1.0, aim 0.5)`);
+  console.log(`fact store: ${mib(storeBytes)} = ${(storeBytes / facts).toFixed(1)} bytes per entailed fact (target ≤ 80); process RSS growth ${mib(rssDelta)} = ${(rssDelta / facts).toFixed(1)} bytes per fact; clingo peak RSS ${mib(clingoPeak)}`);
+}
+
+async function disjunctive10k(): Promise<void> {
+  console.log('== (2) disjunctive catalogue with number restrictions, 10k individuals');
+  const onto = disjunctiveCatalogue();
+  const program = rewriteOntology({ axioms: onto.axioms, classes: onto.classes, properties: onto.properties, assertions: [] });
+  const rnd = random(7);
+  const assemblies = 2500, partsEach = 3, perSupplier = 5;
+  const cp: number[] = [], ci: number[] = [], pp: number[] = [], ps: number[] = [], po: number[] = [];
+  let next = 0;
+  const suppliers: number[] = [];
+  for (let a = 0; a < assemblies; a++) {
+    const id = next++;
+    cp.push(0); ci.push(id);
+    if (a % perSupplier === 0) { suppliers.push(next++); cp.push(6); ci.push(suppliers[suppliers.length - 1]!); }
+    pp.push(1); ps.push(id); po.push(suppliers[suppliers.length - 1]!);
+    for (let k = 0; k < partsEach; k++) {
+      const p = next++;
+      pp.push(0); ps.push(id); po.push(p);
+      cp.push(1); ci.push(p);
+      const x = rnd();
+      if (x < 0.3) { cp.push(2); ci.push(p); } else if (x < 0.4) { cp.push(3); ci.push(p); }
+    }
+  }
+  const none = new Int32Array(0);
+  const input: ChaseInput = {
+    individuals: next, classPred: Int32Array.from(cp), classInd: Int32Array.from(ci), propPred: Int32Array.from(pp), propSubj: Int32Array.from(ps), propObj: Int32Array.from(po),
+    sameA: none, sameB: none, diffA: none, diffB: none, classNames: onto.classes, propertyNames: onto.properties,
+  };
+  const times: number[] = [];
+  let stats, facts = 0;
+  for (let r = 0; r < runs; r++) {
+    const sink = new CountingSink();
+    const t0 = performance.now();
+    const outcome = await entail(program, input, sink, { guard: new Guard() });
+    times.push(performance.now() - t0);
+    stats = outcome.stats; facts = sink.n;
+    if (outcome.status !== 'ok') console.log('(inconsistent)');
+  }
+  console.log(`individuals: ${next}; input facts: ${cp.length + pp.length}; entailed facts: ${facts}`);
+  console.log(`median ${median(times).toFixed(0)} ms over ${runs} runs (target < 60 000 ms); ${JSON.stringify(stats)}`);
+}
+
+function rewritingScale(): void {
+  console.log('== (3) rewriting size and time against ontology size (normal-form axioms)');
+  for (const n of [10, 100, 1_000, 10_000, 100_000]) {
+    const axioms = mixedNormalForm(n);
+    const times: number[] = [];
+    let program = rewriteOntology({ axioms, classes: [], properties: [], assertions: [] });
+    for (let r = 0; r < Math.max(3, runs); r++) {
+      const t0 = performance.now();
+      program = rewriteOntology({ axioms, classes: [], properties: [], assertions: [] });
+      times.push(performance.now() - t0);
+    }
+    const atoms = program.rules.reduce((s, r) => s + r.body.length + r.head.reduce((t, d) => t + d.atoms.length, 0), 0);
+    console.log(`${String(n).padStart(7)} axioms → ${String(program.rules.length).padStart(7)} rules, ${String(atoms).padStart(8)} atoms (${(atoms / n).toFixed(2)} per axiom), median ${median(times).toFixed(2)} ms`);
+  }
+}
+
+if (part === 0 || part === 3) rewritingScale();
+if (part === 0 || part === 1) await hornAgainstClingo();
+if (part === 0 || part === 2) await disjunctive10k();
