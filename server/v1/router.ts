@@ -11,9 +11,20 @@ import { openApiDocument } from './openapi.js';
 
 export function v1Router(ctx: AppContext): Router {
   const router = Router();
+  // CORS for browser applications on other sites: the key travels in the Authorization header, never in a cookie, so
+  // any origin may call (Fetch standard, CORS protocol; preflight answered here without authentication).
+  router.use((req, res, next) => {
+    res.set('Access-Control-Allow-Origin', '*');
+    res.set('Access-Control-Expose-Headers', 'RateLimit, RateLimit-Policy, Retry-After');
+    if (req.method !== 'OPTIONS') return next();
+    res.set('Access-Control-Allow-Methods', 'GET, POST');
+    res.set('Access-Control-Allow-Headers', 'Authorization, Content-Type, Accept');
+    res.set('Access-Control-Max-Age', '600');
+    res.status(204).end();
+  });
   const document = JSON.stringify(openApiDocument(ctx.config));
   router.get('/openapi.json', (_req, res) => {
-    res.set('Access-Control-Allow-Origin', '*').type('application/json').send(document);
+    res.type('application/json').send(document);
   });
   const pipeline = [authenticateKey(ctx), resolveListing(ctx), apiRateLimiter(ctx.pool), enforceQuota(ctx)];
   const bodies = [express.text({ type: 'application/sparql-query', limit: '64kb' }), express.urlencoded({ extended: false, limit: '64kb' })];

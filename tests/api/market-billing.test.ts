@@ -208,6 +208,20 @@ describe('renewals, failed payments, plan changes and cancellation', () => {
     await agent.post(`/api/market/subscriptions/${subscription.id}/cancel`).send({ when: 'now' }).expect(409);
   });
 
+  it('a scheduled cancellation can be taken back (resume), at Stripe and here', async () => {
+    const { agent, subscription } = await subscribedAgent('basic');
+    await agent.post(`/api/market/subscriptions/${subscription.id}/resume`).send({}).expect(409);
+    await agent.post(`/api/market/subscriptions/${subscription.id}/cancel`).send({ when: 'period_end' }).expect(200);
+    const remote = h.standIn.account.get('subscription', (await sub(subscription.id)).stripe_subscription_id);
+    expect(remote.cancel_at_period_end).toBe(true);
+    const resumed = await agent.post(`/api/market/subscriptions/${subscription.id}/resume`).send({}).expect(200);
+    expect(resumed.body.subscription.cancelAtPeriodEnd).toBe(false);
+    expect(remote.cancel_at_period_end).toBe(false);
+    const stranger = await signedInAgent(h, { roles: ['subscriber'] });
+    await stranger.post(`/api/market/subscriptions/${subscription.id}/cancel`).send({ when: 'now' }).expect(404);
+    await stranger.put(`/api/market/subscriptions/${subscription.id}/plan`).send({ planId: plans.pro.id }).expect(404);
+  });
+
   it('cancel now ends a paid subscription at Stripe and here', async () => {
     const { agent, subscription } = await subscribedAgent('basic');
     const res = await agent.post(`/api/market/subscriptions/${subscription.id}/cancel`).send({ when: 'now' }).expect(200);

@@ -214,6 +214,13 @@ describe('GET /api/v1/openapi.json', () => {
     expect(res.body.components.securitySchemes.apiKey).toEqual(expect.objectContaining({ type: 'http', scheme: 'bearer' }));
     for (const status of ['400', '401', '403', '404', '429']) expect(res.body.paths['/kbs/{slug}/facts'].get.responses).toHaveProperty(status);
   });
+  it('answers CORS preflights so browser applications on other sites can call with a Bearer key', async () => {
+    const pre = await supertest(t.app).options(`/api/v1/kbs/${listing.slug}/sparql`).set('Origin', 'https://app.example.test').set('Access-Control-Request-Method', 'POST').set('Access-Control-Request-Headers', 'authorization, content-type').expect(204);
+    expect(pre.headers['access-control-allow-origin']).toBe('*');
+    expect(pre.headers['access-control-allow-headers']).toMatch(/Authorization/);
+    const res = await get(`/api/v1/kbs/${listing.slug}/facts?limit=1`).set('Origin', 'https://app.example.test').expect(200);
+    expect(res.headers['access-control-expose-headers']).toMatch(/RateLimit/);
+  });
   it('unknown /api/v1 paths answer JSON 404', async () => {
     const res = await supertest(t.app).get('/api/v1/nothing').expect(404);
     expect(res.body.error.code).toBe('not_found');
