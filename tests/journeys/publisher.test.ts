@@ -78,8 +78,24 @@ describe('journey: publisher from upload to published listing', () => {
 
     // The version page follows the job live until it is ready.
     await page.waitForURL((url) => /^\/publisher\/versions\/[0-9a-f-]{36}$/.test(url.pathname), { timeout: 30_000 });
+    await page.locator('[data-test="version-status"]').waitFor();
+    // Record every state the status tag shows, to see the page change by itself (polling), without a reload.
+    await page.evaluate(() => {
+      const seen: string[] = [];
+      (window as unknown as { seenStatuses: string[] }).seenStatuses = seen;
+      const read = () => {
+        const text = document.querySelector('[data-test="version-status"]')?.textContent?.trim() ?? '';
+        if (text && seen.at(-1) !== text) seen.push(text);
+      };
+      read();
+      new MutationObserver(read).observe(document.body, { subtree: true, childList: true, characterData: true });
+    });
     await shot('version-progress');
     await eventually(() => page.locator('[data-test="version-status"]').textContent(), 60_000).toBe('Ready');
+    const seen = await page.evaluate(() => (window as unknown as { seenStatuses: string[] }).seenStatuses);
+    expect(seen.at(-1)).toBe('Ready');
+    expect(seen.length, `statuses seen: ${seen.join(' → ')}`).toBeGreaterThan(1);
+    expect(['Waiting', 'Working']).toContain(seen[0]);
     await eventually(() => page.locator('[data-test="consistency"]').textContent()).toContain('Consistent');
     await shot('version-ready');
     await page.getByRole('tab', { name: 'Profile' }).click();
