@@ -222,6 +222,8 @@ export async function readCsv(path: string, mapping: CsvMapping, builder: AboxBu
   let header: string[] | null = null;
   let subjectIndex = -1;
   let plan: { index: number; kind: 'class' | 'property' | 'type'; id: number; header: string }[] = [];
+  // The first error (from a row handler or from csv-parse) wins; later writes stop at it instead of masking it.
+  let failure: Error | null = null;
   const done = new Promise<void>((resolve, reject) => {
     parser.on('readable', () => {
       try {
@@ -260,11 +262,15 @@ export async function readCsv(path: string, mapping: CsvMapping, builder: AboxBu
           c.triples++;
         }
       } catch (e) {
+        failure ??= e as Error;
         parser.destroy();
-        reject(e);
+        reject(failure);
       }
     });
-    parser.on('error', (e: Error & { lines?: number; code?: string }) => reject(e instanceof LineError ? e : new LineError(e.message, e.lines ?? 0, 0)));
+    parser.on('error', (e: Error & { lines?: number; code?: string }) => {
+      failure ??= e instanceof LineError ? e : new LineError(e.message, e.lines ?? 0, 0);
+      reject(failure);
+    });
     parser.on('end', () => resolve());
   });
   done.catch(() => undefined);
@@ -275,13 +281,15 @@ export async function readCsv(path: string, mapping: CsvMapping, builder: AboxBu
       const cut = completeUtf8(buf);
       pending = cut < buf.length ? Buffer.from(buf.subarray(cut)) : null;
       if (!isUtf8(buf.subarray(0, cut))) throw new LineError('invalid UTF-8: the file must be UTF-8', 0, 0);
+      if (failure) throw failure;
       parser.write(buf.subarray(0, cut));
     });
     if (pending) throw new LineError('invalid UTF-8 at the end of the file', 0, 0);
+    if (failure) throw failure;
     parser.end();
   } catch (e) {
     parser.destroy();
-    throw e;
+    throw failure ?? e;
   }
   await done;
 }

@@ -200,3 +200,14 @@ describe('N-Triples reader agrees with n3 (outside reference parser) on random d
     }), { numRuns: 150 });
   });
 });
+
+describe('CSV errors in large files', () => {
+  it('reports the first bad row even when more chunks follow', async () => {
+    // ≈ 2.6 MB, three read chunks; the bad row is in the first.
+    const pad = 'x'.repeat(30);
+    const rows = Array.from({ length: 60_000 }, (_, i) => (i === 5 ? `,1,,,${pad}` : `i${i},1,,,${pad}`));
+    const path = file('many.csv', 'id,person,knows,kind,pad\n' + rows.join('\n') + '\n');
+    const mapping = { subjectColumn: 'id', base: 'http://e/', columns: { person: { kind: 'class', iri: 'http://e/Person' } } } as const;
+    expect(await errorOf([{ path, csv: mapping }])).toMatchObject({ position: expect.stringMatching(/many\.csv:7$/), message: 'empty subject in column "id"' });
+  });
+});
