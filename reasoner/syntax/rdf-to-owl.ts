@@ -24,6 +24,7 @@ const STRUCTURAL = new Set([RDF_FIRST, RDF_REST, o('intersectionOf'), o('unionOf
   o('inverseOf'), o('onDatatype'), o('withRestrictions'), o('datatypeComplementOf')]);
 const STRUCTURAL_TYPES = new Set([o('Restriction'), o('Class'), RDFS + 'Datatype', RDF + 'List']);
 const GENERATOR_TYPES = new Set([o('AllDisjointClasses'), o('AllDisjointProperties'), o('AllDifferent'), o('NegativePropertyAssertion'), o('Axiom'), o('Annotation')]);
+const MAX_DEPTH = 1000;
 const REIFICATION = new Set([o('annotatedSource'), o('annotatedProperty'), o('annotatedTarget')]);
 
 /** Maps a graph to an ontology. Throws RdfSyntaxError naming the triple for malformed structures (bad lists, cycles). */
@@ -172,6 +173,8 @@ class ReverseMapping {
     const cached = this.classCache.get(node.key);
     if (cached) return cached;
     if (this.visiting.has(node.key)) this.fail(at, `class expression ${node.key} refers to itself`);
+    // The same cap as the functional-syntax parser: later stages recurse over expressions.
+    if (this.visiting.size >= MAX_DEPTH) this.fail(at, `class expressions nested deeper than ${MAX_DEPTH} levels`);
     this.visiting.add(node.key);
     const c = this.readClassExpression(node.key, at);
     this.visiting.delete(node.key);

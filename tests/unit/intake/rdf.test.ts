@@ -111,3 +111,13 @@ describe('RDF/XML entity expansion is refused where it could blow up (GUIDE: sec
     expect(expandXmlEntities('<!DOCTYPE r [\n<!ENTITY owl "http://www.w3.org/2002/07/owl#">\n]><r a="&owl;Thing"/>')).toBe('\n\n<r a="http://www.w3.org/2002/07/owl#Thing"/>');
   });
 });
+
+describe('RDF hostile nesting', () => {
+  it('refuses class expressions nested deeper than 1000 blank nodes with a clear error', async () => {
+    const depth = 5000;
+    const body = ':A rdfs:subClassOf ' + '[ owl:complementOf '.repeat(depth) + ':B' + ' ]'.repeat(depth) + ' .';
+    const err = await loadOntology({ path: 'deep.ttl' }, { text: ttl(body) }).catch((e) => e);
+    expect(err).toBeInstanceOf(InputError);
+    expect(err.diagnostics[0].message).toMatch(/nested deeper than 1000 levels/);
+  });
+});
