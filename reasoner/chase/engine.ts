@@ -159,7 +159,9 @@ export class Chase {
       env[atom.a] = s; env[atom.b] = o;
     }
     const plan = rule.plans[i]!;
+    const sym = rule.symmetric;
     this.join(plan, 1, i, oldUnary, oldBinary, () => {
+      for (let k = 1; k < sym.length; k++) if (env[sym[k - 1]!]! >= env[sym[k]!]!) return false;
       let dep = 0;
       for (let k = 0; k < plan.length; k++) dep = this.deps.union(dep, this.stepDep[k]!);
       this.out.push(rule.id, dep);

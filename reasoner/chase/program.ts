@@ -40,6 +40,8 @@ export interface CompiledRule {
   readonly plans: readonly (readonly JoinStep[])[];
   /** For existential rules: the body variable the new elements hang from (their parent). */
   readonly center: number;
+  /** Slots of the variables the rule is symmetric in: only matches with increasing elements are kept. */
+  readonly symmetric: readonly number[];
   readonly rule: Rule;
 }
 
@@ -117,7 +119,8 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
       }
       if (center < 0) throw new Error('an existential rule must link each new element to a body variable');
     }
-    return { id, shape, body, head, bodyVars, vars: slots.size, plans, center, rule };
+    const symmetric = (rule.symmetric ?? []).map((v) => slots.get(v)!).filter((v) => v !== undefined && v < bodyVars);
+    return { id, shape, body, head, bodyVars, vars: slots.size, plans, center, rule, symmetric };
   });
   const readersOfUnary: [number, number][][] = unaryNames.map(() => []), readersOfBinary: [number, number][][] = binaryNames.map(() => []);
   for (const r of rules) r.body.forEach((a, i) => {

@@ -62,7 +62,7 @@ export function ruleOfAxiom(axiom: NormalAxiom): Rule {
       }
       const head = [];
       for (let i = 0; i < ys.length; i++) for (let j = i + 1; j < ys.length; j++) head.push({ exists: [], atoms: [{ predicate: EQUALS, args: [ys[i]!, ys[j]!] }] });
-      return { body, head, source };
+      return axiom.n === 0 ? { body, head, source } : { body, head, source, symmetric: ys };
     }
     case 'propertyInclusion':
       return { body: [role(axiom.sub, 'x', 'y')], head: [{ exists: [], atoms: [role(axiom.sup, 'x', 'y')] }], source };

@@ -38,6 +38,11 @@ export interface Rule {
   readonly head: readonly HeadDisjunct[];
   /** The normal-form axiom this rule comes from (null for built-in rules). */
   readonly source: SourceRef | null;
+  /**
+   * Variables the rule is symmetric in (renaming them among themselves gives the same rule, as for the successors
+   * y₁…yₙ₊₁ of ≤n R.B): the chase matches them in one order only, which drops (n+1)! − 1 equivalent instances.
+   */
+  readonly symmetric?: readonly string[];
 }
 
 /** A rule program: rules plus the user vocabulary it is about (what may be read off as entailed facts). */
