@@ -141,6 +141,23 @@ describe('processing and publishing', () => {
     expect((await alice.get(`/api/publisher/versions/${v2}`)).status).toBe(404);
   });
 
+  it('downloads the rule program, unpublishes, and deletes the listing with its facts and files', async () => {
+    const download = await alice.get(`/api/publisher/versions/${v1}/program?download`);
+    expect(download.status).toBe(200);
+    expect(download.headers['content-disposition']).toMatch(/^attachment; filename="?proc-glacier-[a-z0-9-]+-v1-rules\.txt"?$/);
+    const guest = await guestAgent(t.app);
+    expect((await alice.post(`/api/publisher/listings/${listing.id}/unpublish`)).status).toBe(200);
+    expect((await guest.get(`/api/listings/${listing.slug}`)).status).toBe(404);
+    expect((await guest.get('/api/listings')).body.listings.map((l: { slug: string }) => l.slug)).not.toContain(listing.slug);
+    const key1 = (await t.ctx.pool.query(`SELECT store_key FROM kb_versions WHERE id = $1`, [v1])).rows[0].store_key;
+    const folder = path.join(t.ctx.config.uploadDir, listing.id);
+    expect(fs.existsSync(folder)).toBe(true);
+    expect((await alice.delete(`/api/publisher/listings/${listing.id}`)).status).toBe(204);
+    expect(await factTablesExist(t.ctx.pool, key1)).toBe(false);
+    expect(fs.existsSync(folder)).toBe(false);
+    expect((await alice.get(`/api/publisher/listings/${listing.id}`)).status).toBe(404);
+  });
+
   it('reports an inconsistent knowledge base with the clash and refuses to publish it', async () => {
     const l = await newListing('clash');
     // DisjointClasses (OWL 2 Direct Semantics §2.3.1, Table 6): no individual may be in both classes.
