@@ -121,3 +121,19 @@ describe('RDF hostile nesting', () => {
     expect(err.diagnostics[0].message).toMatch(/nested deeper than 1000 levels/);
   });
 });
+
+describe('reverse mapping inverts the forward mapping on random class expressions (fast-check)', () => {
+  it('SubClassOf axioms written per the Mapping (Tables 1, 16) read back to the same axioms', async () => {
+    const fc = (await import('fast-check')).default;
+    const { arbitraryClassExpression } = await import('./arbitraries.js');
+    const { subClassOfTurtle } = await import('./turtle-writer.js');
+    const { OfnWriter: Writer, IriShortener: Shortener } = await import('../../../reasoner/syntax/ofn-writer.js');
+    const w = new Writer(new Shortener({}));
+    await fc.assert(fc.asyncProperty(fc.array(fc.tuple(arbitraryClassExpression(4), arbitraryClassExpression(4)), { minLength: 1, maxLength: 4 }), async (pairs) => {
+      const { ontology, diagnostics } = await loadOntology({ path: 'r.ttl' }, { text: subClassOfTurtle(pairs) });
+      expect(diagnostics).toEqual([]);
+      const expected = pairs.map(([sub, sup]) => w.axiom({ kind: 'SubClassOf', sub, sup, id: 0, position: { source: '', line: 0, column: 0 }, annotations: [] } as never));
+      expect(ontology.axioms.map((a) => w.axiom(a))).toEqual(expected);
+    }), { numRuns: 200 });
+  });
+});
