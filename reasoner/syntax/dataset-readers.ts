@@ -2,6 +2,8 @@
 
 import { createReadStream, statSync } from 'node:fs';
 import { StringDecoder } from 'node:string_decoder';
+import { resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { isUtf8 } from 'node:buffer';
 import { Parser as N3Parser, type Quad } from 'n3';
 import { parse as parseCsv } from 'csv-parse';
@@ -139,7 +141,8 @@ export async function readNTriples(path: string, builder: AboxBuilder, opts: Rea
  * huge token is an error, not unbounded memory.
  */
 export async function readTurtle(path: string, builder: AboxBuilder, opts: ReadOptions = {}): Promise<void> {
-  const parser = new N3Parser({ format: 'Turtle', blankNodePrefix: '' });
+  // Relative IRIs resolve against the file's own URL, as for ontologies (RDF 1.1 Turtle §6.3: the retrieval URI).
+  const parser = new N3Parser({ format: 'Turtle', blankNodePrefix: '', baseIRI: pathToFileURL(resolve(path)).href });
   const local = opts.blankPrefix ?? '';
   const key = (t: ReturnType<typeof fromRdfJs>) => (t.kind === 'blank' ? '_:' + local + t.key.slice(2) : t.key);
   const lexer = (parser as unknown as { _lexer?: { _line?: number; _input?: string | null } })._lexer;
