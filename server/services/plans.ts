@@ -20,7 +20,7 @@ export function toPlanView(row: PlanRow): PlanView {
 
 /** Wraps a failure of the payment provider into a 502 that says what could not be done; nothing is saved. */
 export function paymentProviderError(action: string, error: unknown): HttpError {
-  const message = (error as { message?: string }).message ?? String(error);
+  const message = ((error as { message?: string }).message ?? String(error)).replace(/\.+$/, '');
   return new HttpError(502, `The payment provider refused or did not answer while ${action}: ${message}. Nothing was saved; try again.`, 'payment_provider');
 }
 

@@ -101,7 +101,13 @@ export async function subscribe(ctx: AppContext, user: Express.User, planId: str
   }
   const { rows } = await ctx.pool.query<{ id: string }>(
     `INSERT INTO subscriptions (subscriber_id, listing_id, plan_id, status) VALUES ($1,$2,$3,'pending') RETURNING id`, [user.id, plan.listing_id, plan.id]);
-  return { subscription: null, checkoutUrl: await checkoutFor(ctx, user, rows[0].id, plan) };
+  try {
+    return { subscription: null, checkoutUrl: await checkoutFor(ctx, user, rows[0].id, plan) };
+  } catch (error) {
+    // No checkout was opened: leave no half-made subscription behind.
+    await ctx.pool.query(`DELETE FROM subscriptions WHERE id = $1 AND status = 'pending'`, [rows[0].id]);
+    throw error;
+  }
 }
 
 /** Upgrade or downgrade within the same listing. Free → paid goes through checkout; paid → free ends the Stripe subscription now. */

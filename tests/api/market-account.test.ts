@@ -122,3 +122,34 @@ describe('usage and revenue', () => {
     expect(pub.body.revenue).toEqual([expect.objectContaining({ listingSlug: listing.slug, currency: 'eur', invoices: 1, amountCents: 1900, platformFeeCents: 285, publisherShareCents: 1615 })]);
   });
 });
+
+describe('when the payment provider cannot be reached', () => {
+  it('saving a paid plan or subscribing to one answers 502 and saves nothing', async () => {
+    // A port with nothing listening (bound, read, closed) stands for an unreachable provider.
+    const net = await import('node:net');
+    const port = await new Promise<number>((resolve) => {
+      const s = net.createServer().listen(0, '127.0.0.1', () => {
+        const p = (s.address() as { port: number }).port;
+        s.close(() => resolve(p));
+      });
+    });
+    const offline = await createTestApp({ stripe: { secretKey: 'sk_test_offline', host: '127.0.0.1', port, protocol: 'http' } });
+    try {
+      const owner = await signedInAgent(offline, { roles: ['publisher'] });
+      const own = await publishedListing(offline.ctx, [[`${EX}col`, RDF_TYPE, `${EX}Route`]], { publisher: owner.user });
+      const res = await owner.post(`/api/market/publisher/listings/${own.id}/plans`).send({ name: 'Paid', kind: 'paid', priceCents: 900, currency: 'eur', monthlyQuota: 10, ratePerMinute: 10 }).expect(502);
+      expect(res.body.error.code).toBe('payment_provider');
+      expect(res.body.error.message).toMatch(/Nothing was saved/);
+      expect((await offline.ctx.pool.query(`SELECT count(*)::int AS n FROM plans WHERE listing_id = $1`, [own.id])).rows[0].n).toBe(0);
+      const priced = (await offline.ctx.pool.query(
+        `INSERT INTO plans (listing_id, name, kind, price_cents, currency, monthly_quota, rate_per_minute, stripe_product_id, stripe_price_id) VALUES ($1, 'Paid', 'paid', 900, 'eur', 10, 10, 'prod_x', $2) RETURNING id`,
+        [own.id, `price_${crypto.randomUUID()}`])).rows[0];
+      const buyer = await signedInAgent(offline, { roles: ['subscriber'] });
+      await buyer.post('/api/market/subscriptions').send({ planId: priced.id }).expect(502);
+      expect((await offline.ctx.pool.query(`SELECT count(*)::int AS n FROM subscriptions WHERE subscriber_id = $1`, [buyer.user.id])).rows[0].n).toBe(0);
+    } finally {
+      await stopMeter(offline.ctx);
+      await offline.close();
+    }
+  });
+});
