@@ -211,3 +211,51 @@ describe('CSV errors in large files', () => {
     expect(await errorOf([{ path, csv: mapping }])).toMatchObject({ position: expect.stringMatching(/many\.csv:7$/), message: 'empty subject in column "id"' });
   });
 });
+
+describe('W3C examples as datasets', () => {
+  it('RDF 1.1 N-Triples §2 examples (from memory): comments, blank nodes, typed and language literals', async () => {
+    const path = file('w3c.nt', [
+      '<http://one.example/subject1> <http://one.example/predicate1> <http://one.example/object1> . # comments here',
+      '# or on a line by themselves',
+      '_:subject1 <http://an.example/predicate1> "object1" .',
+      '_:subject2 <http://an.example/predicate2> "object2" .',
+      '<http://example.org/show/218> <http://www.w3.org/2000/01/rdf-schema#label> "That Seventies Show"^^<http://www.w3.org/2001/XMLSchema#string> .',
+      '<http://example.org/show/218> <http://www.w3.org/2000/01/rdf-schema#label> "That Seventies Show" .',
+      '<http://example.org/show/218> <http://example.org/show/localName> "That Seventies Show"@en .',
+      '<http://example.org/show/218> <http://example.org/show/localName> "Cette Série des Années Septante"@fr-be .',
+      '<http://example.org/#spiderman> <http://example.org/text> "This is a multi-line\\nliteral with many quotes (\\"\\"\\"\\"\\")\\nand two apostrophes (\'\')." .',
+      '<http://en.wikipedia.org/wiki/Helium> <http://example.org/elements/atomicNumber> "2"^^<http://www.w3.org/2001/XMLSchema#integer> .',
+      '<http://en.wikipedia.org/wiki/Helium> <http://example.org/elements/specificGravity> "1.663E-4"^^<http://www.w3.org/2001/XMLSchema#double> .',
+    ].join('\n') + '\n');
+    const { rows, dictionary } = await load([{ path }]);
+    expect(rows.properties).toEqual(['http://one.example/predicate1(http://one.example/subject1, http://one.example/object1)']);
+    expect(rows.data).toHaveLength(9);
+    // RDF 1.1: "x"^^xsd:string and "x" are the same literal, hence one term.
+    expect(rows.data[2]).toBe(rows.data[3]);
+    expect(rows.data).toContain('http://example.org/show/localName(http://example.org/show/218, "Cette Série des Années Septante"@fr-be)');
+    expect(rows.data).toContain('http://example.org/text(http://example.org/#spiderman, "This is a multi-line\\nliteral with many quotes (\\"\\"\\"\\"\\")\\nand two apostrophes (\'\').")');
+    expect(dictionary.has('_:f1_subject1')).toBe(true);
+  });
+
+  it('RDF 1.1 Turtle §2 example (from memory): @base, predicate and object lists, a language literal', async () => {
+    const path = file('w3c.ttl', [
+      '@base <http://example.org/> .',
+      '@prefix rdf: <http://www.w3.org/1999/02/22-rdf-syntax-ns#> .',
+      '@prefix foaf: <http://xmlns.com/foaf/0.1/> .',
+      '@prefix rel: <http://www.perceive.net/schemas/relationship/> .',
+      '<#green-goblin> rel:enemyOf <#spiderman> ; a foaf:Person ; foaf:name "Green Goblin" .',
+      '<#spiderman> rel:enemyOf <#green-goblin> ; a foaf:Person ; foaf:name "Spiderman", "Человек-паук"@ru .',
+    ].join('\n') + '\n');
+    const { rows } = await load([{ path }]);
+    expect(rows.classes).toEqual(['http://xmlns.com/foaf/0.1/Person(http://example.org/#green-goblin)', 'http://xmlns.com/foaf/0.1/Person(http://example.org/#spiderman)']);
+    expect(rows.properties).toEqual([
+      'http://www.perceive.net/schemas/relationship/enemyOf(http://example.org/#green-goblin, http://example.org/#spiderman)',
+      'http://www.perceive.net/schemas/relationship/enemyOf(http://example.org/#spiderman, http://example.org/#green-goblin)',
+    ]);
+    expect(rows.data).toEqual([
+      'http://xmlns.com/foaf/0.1/name(http://example.org/#green-goblin, "Green Goblin")',
+      'http://xmlns.com/foaf/0.1/name(http://example.org/#spiderman, "Spiderman")',
+      'http://xmlns.com/foaf/0.1/name(http://example.org/#spiderman, "Человек-паук"@ru)',
+    ]);
+  });
+});
