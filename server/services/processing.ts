@@ -4,17 +4,13 @@
 import os from 'node:os';
 import type { AppContext } from '../context.js';
 import type { FactSink, ReasonOptions, ReasonResult } from '../../reasoner/api.js';
+import { reason } from '../../reasoner/index.js';
 import { dropFactTables, FactLoader, type LoadStats } from './factStore.js';
 import { appendLog, listFiles, loadVersion, type StoredCounts } from './versions.js';
 import { notifyVersionFinished } from './publishing.js';
 
 export type ReasonFunction = (options: ReasonOptions, sink: FactSink) => Promise<ReasonResult>;
 
-/** The reasoner library's entry point (reasoner/index.ts), loaded on first use. */
-async function reasoner(): Promise<ReasonFunction> {
-  const mod = (await import('../../reasoner/index.js')) as { reason: ReasonFunction };
-  return mod.reason;
-}
 
 /** A version whose heartbeat is older than this is taken to have lost its worker. Generous: a busy event loop delays beats. */
 export const HEARTBEAT_STALE_SECONDS = 180;
@@ -107,7 +103,6 @@ export async function processVersion(ctx: AppContext, versionId: string, options
   let loader: FactLoader | null = null;
   try {
     loader = await FactLoader.open(ctx.pool, storeKey);
-    const reason = await reasoner();
     const result = await reason(
       {
         ontology: { path: ontology.storedPath, format: ontology.format as never },
@@ -153,6 +148,8 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     fraction = 0;
     const stats = await loader.finish((step, f) => (fraction = step === 'terms' ? 0.1 : 0.2 + 0.8 * f));
     const timings = { ...result.timings, storeStreamMs: stats.timings.copyFactsMs, storeWriteMs: stats.timings.writeMs + stats.timings.endCopyMs, storeTermsMs: stats.timings.copyTermsMs, storeIndexMs: stats.timings.indexMs };
+    // A cancel that arrived while the indexes were built still wins: nothing has been served yet.
+    if (controller.signal.aborted) throw new Error(String(controller.signal.reason));
     const toStore = loader;
     loader = null;
     await toStore.commit(async (client) => {
