@@ -153,6 +153,11 @@ function lineAt(text: string, offset: number): number {
 /** Parses RDF/XML text (entities expanded by expandXmlEntities first; the parser never sees a DOCTYPE). */
 export async function parseRdfXml(text: string, baseIRI?: string, limits?: XmlLimits, prefixes: Record<string, string> = {}): Promise<RdfTriple[]> {
   const safe = expandXmlEntities(text, limits);
+  // The parser reports no namespace events: read the xmlns declarations (for printing names short) ourselves.
+  for (const m of safe.slice(0, 1 << 16).matchAll(/\bxmlns(?::([A-Za-z_][\w.\-]*))?\s*=\s*(?:"([^"]*)"|'([^']*)')/g)) {
+    const ns = m[2] ?? m[3] ?? '';
+    if (/^[a-z][a-z0-9+.\-]*:/i.test(ns)) prefixes[(m[1] ?? '') + ':'] ??= ns;
+  }
   const parser = new RdfXmlParser({ baseIRI, trackPosition: true });
   const triples: RdfTriple[] = [];
   const sax = (parser as unknown as { saxParser?: { line?: number } }).saxParser;
@@ -163,7 +168,6 @@ export async function parseRdfXml(text: string, baseIRI?: string, limits?: XmlLi
         triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line: sax?.line ?? 0 });
       } catch (e) { reject(e); }
     });
-    parser.on('prefix', (prefix: string, iri: { value: string } | string) => { prefixes[prefix + ':'] = typeof iri === 'string' ? iri : iri.value; });
     parser.on('error', (e: Error) => {
       const line = Number(/[Ll]ine:?\s*(\d+)/.exec(e.message)?.[1] ?? sax?.line ?? 0);
       const column = Number(/[Cc]olumn:?\s*(\d+)/.exec(e.message)?.[1] ?? 0);
