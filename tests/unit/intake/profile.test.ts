@@ -76,3 +76,35 @@ describe('Horn verdict', () => {
     expect(checkProfile(o).entries[0]).toMatchObject({ classification: 'alchiq', reasons: ['disjunction'] });
   });
 });
+
+describe('Horn classification agrees with the Horn-DL syntax in the literature', () => {
+  // Horn-SHIQ / Horn-ALCHIQ: ≤1 and ∀ only on the right, ∃ on both sides, no disjunction on the right, no
+  // negation on the left (Kazakov, IJCAI 2009 §2; Krötzsch, Rudolph & Hitzler, ACM TOCL 2013, Def. 1 — from memory).
+  const cases: [string, 'horn' | 'alchiq'][] = [
+    ['SubClassOf(:A ObjectMaxCardinality(1 :r :B))', 'horn'],
+    ['SubClassOf(ObjectMaxCardinality(1 :r :B) :A)', 'alchiq'],
+    ['SubClassOf(:A ObjectAllValuesFrom(:r :B))', 'horn'],
+    ['SubClassOf(ObjectAllValuesFrom(:r :B) :A)', 'alchiq'],
+    ['SubClassOf(ObjectIntersectionOf(:A :B) :C)', 'horn'],
+    ['SubClassOf(ObjectUnionOf(:A :B) :C)', 'horn'],
+    ['SubClassOf(:C ObjectUnionOf(:A :B))', 'alchiq'],
+    ['SubClassOf(ObjectComplementOf(:A) :B)', 'alchiq'],
+    ['SubClassOf(:A ObjectComplementOf(:B))', 'horn'],
+    ['SubClassOf(ObjectSomeValuesFrom(:r ObjectIntersectionOf(:A ObjectSomeValuesFrom(:s :B))) :C)', 'horn'],
+    ['SubClassOf(:A ObjectSomeValuesFrom(:r ObjectIntersectionOf(:B ObjectAllValuesFrom(:s :C))))', 'horn'],
+    // ≤1 R.C needs C of the left-hand kind: with C = ¬B the clause ¬A(x) ∨ ¬r(x,y1) ∨ ¬r(x,y2) ∨ B(y1) ∨ B(y2) ∨ y1≈y2
+    // has three positive literals (Hustadt, Motik & Sattler's clause form), so it is not Horn.
+    ['SubClassOf(:A ObjectMaxCardinality(1 :r ObjectComplementOf(:B)))', 'alchiq'],
+    ['SubClassOf(:A ObjectMaxCardinality(1 :r ObjectUnionOf(:B :C)))', 'horn'],
+    ['SubClassOf(:A ObjectMaxCardinality(1 :r ObjectIntersectionOf(:B :C)))', 'horn'],
+    ['SubClassOf(:A ObjectMinCardinality(2 :r :B))', 'horn'],
+    ['SubClassOf(ObjectMinCardinality(2 :r :B) :A)', 'alchiq'],
+    ['SubClassOf(:A ObjectAllValuesFrom(:r ObjectUnionOf(:B :C)))', 'alchiq'],
+  ];
+  for (const [text, expected] of cases) {
+    it(`${text} is ${expected === 'horn' ? 'Horn' : 'not Horn'}`, () => {
+      const o = parseOfn(`Prefix(:=<http://e/>)\nOntology(\n${text}\n)`, 'h.ofn');
+      expect(checkProfile(o).entries[0]!.classification).toBe(expected);
+    });
+  }
+});
