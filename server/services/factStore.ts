@@ -212,6 +212,7 @@ export class FactLoader {
   /** Time spent inside write() (dictionary, encoding, handing chunks to the socket): the store's own share of the streaming. */
   private writeMs = 0;
   private closed = false;
+  private last: { predicate: string; p: number; object: string; o: number; bucketKey: string; bucket: PredicateCount | null } = { predicate: '', p: 0, object: '', o: 0, bucketKey: '', bucket: null };
 
   private constructor(private readonly pool: pg.Pool, private readonly client: pg.PoolClient, readonly storeKey: number) {}
 
@@ -269,11 +270,23 @@ export class FactLoader {
   }
 
   private append(subject: string, predicate: string, object: string, asserted: boolean): void | Promise<void> {
-    const s = this.id(subject), p = this.id(predicate), o = this.id(object);
+    // Producers emit facts in runs (all members of one class, all pairs of one property): remembering the last predicate,
+    // object and count bucket skips most hash lookups.
+    if (predicate !== this.last.predicate) this.last = { predicate, p: this.id(predicate), object: '', o: 0, bucketKey: '', bucket: null };
+    if (object !== this.last.object) {
+      this.last.object = object;
+      this.last.o = this.id(object);
+    }
+    const s = this.id(subject), p = this.last.p, o = this.last.o;
     this.buffer += `${s}\t${p}\t${o}\t${asserted ? 't' : 'f'}\n`;
     this.facts++;
     if (asserted) this.asserted++;
-    const bucket = predicate === RDF_TYPE ? (this.perClass[object] ??= { asserted: 0, entailed: 0 }) : (this.perProperty[predicate] ??= { asserted: 0, entailed: 0 });
+    const key = predicate === RDF_TYPE ? object : predicate;
+    if (key !== this.last.bucketKey || !this.last.bucket) {
+      this.last.bucketKey = key;
+      this.last.bucket = predicate === RDF_TYPE ? (this.perClass[object] ??= { asserted: 0, entailed: 0 }) : (this.perProperty[predicate] ??= { asserted: 0, entailed: 0 });
+    }
+    const bucket = this.last.bucket;
     bucket.entailed++;
     if (asserted) bucket.asserted++;
     if (this.buffer.length >= FLUSH_CHARS) return this.flush();
