@@ -6,6 +6,7 @@
 // Run: eval "$(bash server/scripts/dev-env.sh)" && npx tsx tests/bench/api-load.ts [seconds per run, default 10]
 import autocannon from 'autocannon';
 import { spawn } from 'node:child_process';
+import fs from 'node:fs';
 import net from 'node:net';
 import pg from 'pg';
 import { createContext, closeContext } from '../../server/bootstrap.js';
@@ -49,7 +50,32 @@ async function freePort(): Promise<number> {
   });
 }
 
+/** CPU time (ms) of a process and its direct children, user and system, from /proc (Linux); less sensitive to machine load than throughput. */
+function processTreeCpuMs(pid: number): { user: number; system: number } {
+  const read = (p: number) => {
+    try {
+      const f = fs.readFileSync(`/proc/${p}/stat`, 'utf8').split(') ')[1].split(' ');
+      return { ppid: Number(f[1]), user: Number(f[11]), system: Number(f[12]) };
+    } catch {
+      return null;
+    }
+  };
+  const own = read(pid);
+  let user = own?.user ?? 0;
+  let system = own?.system ?? 0;
+  for (const entry of fs.readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue;
+    const s = read(Number(entry));
+    if (s && s.ppid === pid) {
+      user += s.user;
+      system += s.system;
+    }
+  }
+  return { user: user * 10, system: system * 10 }; // USER_HZ is 100 on Linux
+}
+
 async function runHttp(url: string, auth: string, path: (slug: string) => string, slug: string) {
+  const cpuBefore = processTreeCpuMs(server.pid!);
   const result = await autocannon({
     url,
     connections: CONNECTIONS,
@@ -57,7 +83,11 @@ async function runHttp(url: string, auth: string, path: (slug: string) => string
     headers: { authorization: auth },
     requests: [{ method: 'GET', setupRequest: (req) => ({ ...req, path: path(slug) }) }],
   });
-  return { rps: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, total: result.requests.total, ok: result['2xx'], non2xx: result.non2xx, errors: result.errors + result.timeouts };
+  const cpuAfter = processTreeCpuMs(server.pid!);
+  const n = Math.max(1, result.requests.total);
+  const cpuUser = (cpuAfter.user - cpuBefore.user) / n;
+  const cpuSystem = (cpuAfter.system - cpuBefore.system) / n;
+  return { rps: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, total: result.requests.total, ok: result['2xx'], non2xx: result.non2xx, errors: result.errors + result.timeouts, cpuPerRequest: cpuUser + cpuSystem, cpuUser, cpuSystem };
 }
 
 /** The same lookups as one SQL each, issued by 32 concurrent loops for the same time. */
@@ -120,13 +150,14 @@ const counted = Number(rows[0].n);
 
 const f = (n: number) => n.toFixed(n < 10 ? 2 : 0);
 console.log(`\n/api/v1 load, ${CONNECTIONS} connections, ${SECONDS} s per run, ${WORKERS} server process(es) (auth + PostgreSQL rate limit + metering on); load average before: ${loadBefore}`);
-console.log('run                    req/s     p50 ms   p99 ms   requests   non-2xx');
+console.log('run                    req/s     p50 ms   p99 ms   requests   non-2xx   server CPU ms/request');
 for (const [name, r] of [['HTTP fact lookup', httpLookup], ['HTTP pattern query', httpPattern]] as const) {
-  console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}   ${r.non2xx + r.errors}`);
+  console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}   ${String(r.non2xx + r.errors).padStart(7)}   ${r.cpuPerRequest.toFixed(3)} (user ${r.cpuUser.toFixed(3)}, system ${r.cpuSystem.toFixed(3)})`);
 }
 for (const [name, r] of [['PostgreSQL lookup', pgLookup], ['PostgreSQL pattern', pgPattern]] as const) {
   console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}`);
 }
+console.log(`Web-process CPU per answered request: lookups ${httpLookup.cpuPerRequest.toFixed(3)} ms, patterns ${httpPattern.cpuPerRequest.toFixed(3)} ms → about ${f(1000 / httpLookup.cpuPerRequest)} lookups/s per core of web process, PostgreSQL's own work not included`);
 console.log(`ratio HTTP/PostgreSQL: lookups ${(httpLookup.rps / pgLookup.rps).toFixed(2)}, patterns ${(httpPattern.rps / pgPattern.rps).toFixed(2)}   (target ≥ 0.5)`);
 console.log(`targets: ≥ 3000 req/s → lookups ${httpLookup.rps >= 3000 ? 'met' : 'NOT met'}, patterns ${httpPattern.rps >= 3000 ? 'met' : 'NOT met'}; p99 ≤ 25 ms → lookups ${httpLookup.p99 <= 25 ? 'met' : 'NOT met'}, patterns ${httpPattern.p99 <= 25 ? 'met' : 'NOT met'}`);
 // autocannon stops each run with up to one request per connection still in flight: the server answers (and counts) those too.
