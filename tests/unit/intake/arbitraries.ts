@@ -45,3 +45,37 @@ export function expressionSize(c: ClassExpression): number {
     default: return 1;
   }
 }
+
+const individual = fc.oneof(fc.constantFrom('a', 'b', 'c').map((n) => EX + n), fc.constantFrom('_:x', '_:y'));
+const literal = fc.record({
+  lexical: fc.string({ maxLength: 12 }),
+  kind: fc.constantFrom('plain', 'lang', 'typed'),
+}).map(({ lexical, kind }) => (kind === 'plain' ? { lexical, datatype: 'http://www.w3.org/2001/XMLSchema#string' }
+  : kind === 'lang' ? { lexical, datatype: 'http://www.w3.org/1999/02/22-rdf-syntax-ns#langString', lang: 'en-gb' }
+  : { lexical, datatype: 'http://www.w3.org/2001/XMLSchema#integer' }));
+const dataProperty = fc.constantFrom('age', 'name').map((n) => EX + n);
+const annotation = fc.record({ property: fc.constant('http://www.w3.org/2000/01/rdf-schema#comment'), value: literal.map((l) => ({ kind: 'literal' as const, literal: l })), annotations: fc.constant([]) });
+
+/** Random axioms of most kinds (class, property, assertion, data, annotation), as the parser would build them. */
+export function arbitraryAxiomBody(): fc.Arbitrary<Record<string, unknown>> {
+  const ce = arbitraryClassExpression(2);
+  const p = arbitraryProperty;
+  return fc.oneof(
+    fc.record({ kind: fc.constant('SubClassOf'), sub: ce, sup: ce }),
+    fc.record({ kind: fc.constantFrom('EquivalentClasses', 'DisjointClasses'), classes: fc.array(ce, { minLength: 2, maxLength: 3 }) }),
+    fc.record({ kind: fc.constant('DisjointUnion'), cls: fc.constant(EX + 'U'), classes: fc.array(ce, { minLength: 2, maxLength: 3 }) }),
+    fc.record({ kind: fc.constant('SubObjectPropertyOf'), sub: p, sup: p }),
+    fc.record({ kind: fc.constant('SubObjectPropertyChainOf'), chain: fc.array(p, { minLength: 2, maxLength: 3 }), sup: p }),
+    fc.record({ kind: fc.constantFrom('EquivalentObjectProperties', 'DisjointObjectProperties'), properties: fc.array(p, { minLength: 2, maxLength: 3 }) }),
+    fc.record({ kind: fc.constant('InverseObjectProperties'), first: p, second: p }),
+    fc.record({ kind: fc.constantFrom('ObjectPropertyDomain', 'ObjectPropertyRange'), property: p, cls: ce }),
+    fc.record({ kind: fc.constantFrom('FunctionalObjectProperty', 'InverseFunctionalObjectProperty', 'ReflexiveObjectProperty', 'IrreflexiveObjectProperty', 'SymmetricObjectProperty', 'AsymmetricObjectProperty', 'TransitiveObjectProperty'), property: p }),
+    fc.record({ kind: fc.constant('HasKey'), cls: ce, objectProperties: fc.array(p, { maxLength: 2 }), dataProperties: fc.array(dataProperty, { maxLength: 2 }) }),
+    fc.record({ kind: fc.constantFrom('SameIndividual', 'DifferentIndividuals'), individuals: fc.array(individual, { minLength: 2, maxLength: 3 }) }),
+    fc.record({ kind: fc.constant('ClassAssertion'), cls: ce, individual }),
+    fc.record({ kind: fc.constantFrom('ObjectPropertyAssertion', 'NegativeObjectPropertyAssertion'), property: p, subject: individual, object: individual }),
+    fc.record({ kind: fc.constantFrom('DataPropertyAssertion', 'NegativeDataPropertyAssertion'), property: dataProperty, subject: individual, value: literal }),
+    fc.record({ kind: fc.constant('DataPropertyRange'), property: dataProperty, range: fc.constant({ kind: 'datatypeRestriction', datatype: 'http://www.w3.org/2001/XMLSchema#integer', facets: [{ facet: 'http://www.w3.org/2001/XMLSchema#minInclusive', value: { lexical: '18', datatype: 'http://www.w3.org/2001/XMLSchema#integer' } }] }) }),
+    fc.record({ kind: fc.constant('SubClassOf'), sub: ce, sup: fc.record({ kind: fc.constant('dataSome'), properties: fc.constant([EX + 'age']), range: fc.constant({ kind: 'datatype', name: 'http://www.w3.org/2001/XMLSchema#integer' }) }) }),
+  ).chain((body) => fc.array(annotation, { maxLength: 1 }).map((annotations) => ({ ...body, annotations })));
+}

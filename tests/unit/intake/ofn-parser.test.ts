@@ -7,7 +7,7 @@ import { parseOfn, OfnSyntaxError } from '../../../reasoner/syntax/ofn-parser.js
 import { IriShortener, OfnWriter } from '../../../reasoner/syntax/ofn-writer.js';
 import { loadOntology, InputError } from '../../../reasoner/intake.js';
 import type { Axiom } from '../../../reasoner/model/axioms.js';
-import { arbitraryClassExpression, EX } from './arbitraries.js';
+import { arbitraryAxiomBody, arbitraryClassExpression, EX } from './arbitraries.js';
 
 const fixture = (name: string) => new URL(`../../fixtures/ontologies/${name}`, import.meta.url).pathname;
 const writer = new OfnWriter(new IriShortener({}));
@@ -89,6 +89,16 @@ describe('functional-style syntax: printing and re-parsing round-trips', () => {
       const back = parseOfn(`Ontology(\n${text}\n)`, 'x').axioms[0]!;
       expect(writer.axiom(back)).toBe(text);
       expect(back).toMatchObject({ kind: 'SubClassOf', sub, sup });
+    }), { numRuns: 300 });
+  });
+
+  it('random axioms of every kind survive write → parse, with literals and annotations (fast-check)', () => {
+    fc.assert(fc.property(fc.array(arbitraryAxiomBody(), { minLength: 1, maxLength: 6 }), (bodies) => {
+      const axioms = bodies.map((b, id) => ({ ...b, id, position: { source: 'x', line: id + 2, column: 1 } }) as unknown as Axiom);
+      const text = `Ontology(\n${axioms.map((a) => writer.axiom(a)).join('\n')}\n)`;
+      const back = parseOfn(text, 'x').axioms;
+      expect(back.map((a) => writer.axiom(a))).toEqual(axioms.map((a) => writer.axiom(a)));
+      expect(back.map(({ id: _id, position: _p, ...rest }) => rest)).toEqual(bodies);
     }), { numRuns: 300 });
   });
 
