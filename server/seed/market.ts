@@ -5,7 +5,7 @@ import { createPlan, type PlanRow } from '../services/plans.js';
 import { stripeClient } from '../services/stripe.js';
 import type { PlanInput } from '../../shared/market.js';
 
-const DEMO_PLANS: Record<string, PlanInput[]> = {
+export const DEMO_PLANS: Record<string, PlanInput[]> = {
   'tidewater-port-registry': [
     { name: 'Deckhand', description: 'For trying the registry out and for small tools.', kind: 'free', priceCents: 0, currency: 'eur', monthlyQuota: 2_000, ratePerMinute: 60 },
     { name: 'Harbourmaster', description: 'For production apps that look up berths and vessels all day.', kind: 'paid', priceCents: 2900, currency: 'eur', monthlyQuota: 500_000, ratePerMinute: 3_000 },
@@ -16,8 +16,12 @@ const DEMO_PLANS: Record<string, PlanInput[]> = {
   ],
 };
 
-export async function seedMarket(ctx: AppContext, log: (line: string) => void = (line) => console.log(`[seed] ${line}`)): Promise<void> {
-  for (const [slug, plans] of Object.entries(DEMO_PLANS)) {
+export async function seedMarket(
+  ctx: AppContext,
+  log: (line: string) => void = (line) => console.log(`[seed] ${line}`),
+  plansBySlug: Record<string, PlanInput[]> = DEMO_PLANS,
+): Promise<void> {
+  for (const [slug, plans] of Object.entries(plansBySlug)) {
     const listing = (await ctx.pool.query<{ id: string; publisher_id: string }>(`SELECT id, publisher_id FROM listings WHERE slug = $1`, [slug])).rows[0];
     if (!listing) {
       log(`plans for ${slug}: listing not found, skipped`);
