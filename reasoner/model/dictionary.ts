@@ -14,8 +14,8 @@
  * table (load 0.25–0.5), i.e. about length + 30 bytes, against ≈ length + 50 for a Map<string, number>
  * with a string array (tests/bench/intake.ts prints the measured figure). `internBytes` lets
  * readers intern straight from an input chunk, so a repeated term never becomes a string at all (the hot
- * path of dataset intake). `term(id)` decodes the bytes (a fresh string each call: callers that print many
- * terms may cache).
+ * path of dataset intake). `term(id)` decodes the bytes, through a small direct-mapped cache of 16k
+ * decoded terms (bounded memory; the classes and properties of output facts hit it).
  */
 export class TermDictionary {
   private arena: Buffer = Buffer.allocUnsafe(1 << 16);
@@ -28,6 +28,9 @@ export class TermDictionary {
   private hashes = new Int32Array(1 << 12);
   private mask = (1 << 12) - 1;
   private scratch: Buffer = Buffer.allocUnsafe(1 << 12);
+  /** A small direct-mapped cache of decoded terms (bounded memory; predicates and classes repeat in output). */
+  private readonly cacheIds = new Int32Array(1 << 14).fill(-1);
+  private readonly cacheTerms: string[] = new Array<string>(1 << 14);
 
   /** Returns the id of the term, adding it if new. Ids are dense: 0, 1, 2, … in order of first intern. */
   intern(term: string): number {
@@ -49,7 +52,12 @@ export class TermDictionary {
   /** Returns the term of an id; throws a RangeError for an id never given out. */
   term(id: number): string {
     if (!(id >= 0 && id < this.count)) throw new RangeError(`no term with id ${id} (dictionary size ${this.count})`);
-    return this.arena.toString('utf8', this.starts[id]!, this.end(id));
+    const slot = id & ((1 << 14) - 1);
+    if (this.cacheIds[slot] === id) return this.cacheTerms[slot]!;
+    const term = this.arena.toString('utf8', this.starts[id]!, this.end(id));
+    this.cacheIds[slot] = id;
+    this.cacheTerms[slot] = term;
+    return term;
   }
 
   /** Number of distinct terms. */
