@@ -115,43 +115,56 @@ const isNamed = (term: string) => termKind(term) === 'iri';
 const isOutputPredicate = (p: string) => !isFreshName(p) && p !== OWL_THING && p !== OWL_TOP_OBJECT_PROPERTY && p !== OWL_NOTHING && p !== OWL_BOTTOM_OBJECT_PROPERTY;
 
 async function writeFacts(buffer: FactBuffer, input: ReturnType<typeof buildChaseInput>, dictionary: TermDictionary, abox: Abox, sink: FactSink, signal: AbortSignal | undefined, progress: (f: number) => void): Promise<Counts> {
-  const term = (individual: number) => dictionary.term(input.individualTerms[individual]!);
+  // Everything per predicate and per individual is decided once, so the loop per fact is lookups in arrays.
+  const terms = input.individualTerms, n = terms.length;
+  const names: string[] = new Array(n), named = new Uint8Array(n);
+  for (let i = 0; i < n; i++) { names[i] = dictionary.term(terms[i]!); named[i] = isNamed(names[i]!) ? 1 : 0; }
   const asserted = input.assertedSet;
   const perPredicate: Record<string, { asserted: number; entailed: number }> = {};
-  let assertedFacts = 0, entailedFacts = 0;
+  let assertedFacts = 0, entailedFacts = 0, written = 0;
   const total = buffer.size;
-  let written = 0;
-  const count = (p: string, isAsserted: boolean) => {
-    const c = (perPredicate[p] ??= { asserted: 0, entailed: 0 });
-    c.entailed++; entailedFacts++;
-    if (isAsserted) { c.asserted++; assertedFacts++; }
-  };
-  const step = async () => {
-    if ((++written & 16383) === 0) { progress(written / total); await yieldToEvents(); if (signal?.aborted) throw new CancelledError(); }
-  };
-  for (const [name, ind] of buffer.unaryFacts()) {
-    if (!isOutputPredicate(name) || !isNamed(term(ind))) continue;
-    const a = asserted.has(0, dictionary.id(name), input.individualTerms[ind]!);
-    count(name, a);
-    await sink.write(term(ind), RDF_TYPE, name, a);
-    await step();
+  const pause = async () => { progress(written / total); await yieldToEvents(); if (signal?.aborted) throw new CancelledError(); };
+  const counter = (p: string) => (perPredicate[p] ??= { asserted: 0, entailed: 0 });
+
+  const unaryOut = buffer.unaryNames.map(isOutputPredicate), unaryTerm = buffer.unaryNames.map((c) => dictionary.id(c));
+  const unaryCount = buffer.unaryNames.map(counter);
+  const uc = buffer.unaryColumns();
+  for (let i = 0; i < uc.length; i++) {
+    const cls = uc.pred[i]!, ind = uc.ind[i]!;
+    if (!unaryOut[cls] || !named[ind]) continue;
+    const a = asserted.has(0, unaryTerm[cls]!, terms[ind]!);
+    const c = unaryCount[cls]!; c.entailed++; if (a) c.asserted++;
+    const r = sink.write(names[ind]!, RDF_TYPE, buffer.unaryNames[cls]!, a);
+    if (r) await r;
+    if ((++written & 65535) === 0) await pause();
   }
-  for (const [name, s, o] of buffer.binaryFacts()) {
-    if (!isOutputPredicate(name) || !isNamed(term(s)) || !isNamed(term(o))) continue;
-    const a = asserted.has(1 + dictionary.id(name), input.individualTerms[s]!, input.individualTerms[o]!);
-    count(name, a);
-    await sink.write(term(s), name, term(o), a);
-    await step();
+  const binaryOut = buffer.binaryNames.map(isOutputPredicate), binaryTerm = buffer.binaryNames.map((p) => 1 + dictionary.id(p));
+  const binaryCount = buffer.binaryNames.map(counter);
+  const bc = buffer.binaryColumns();
+  for (let i = 0; i < bc.length; i++) {
+    const prop = bc.pred[i]!, s = bc.subj[i]!, o = bc.obj[i]!;
+    if (!binaryOut[prop] || !named[s] || !named[o]) continue;
+    const a = binaryTerm[prop]! > 0 && asserted.has(binaryTerm[prop]!, terms[s]!, terms[o]!);
+    const c = binaryCount[prop]!; c.entailed++; if (a) c.asserted++;
+    const r = sink.write(names[s]!, buffer.binaryNames[prop]!, names[o]!, a);
+    if (r) await r;
+    if ((++written & 65535) === 0) await pause();
   }
+  const sameCount = counter(OWL_SAME_AS);
   for (const [x, y] of buffer.sameFacts()) {
-    if (!isNamed(term(x)) || !isNamed(term(y))) continue;
-    const a = asserted.has(-1, input.individualTerms[x]!, input.individualTerms[y]!) || asserted.has(-1, input.individualTerms[y]!, input.individualTerms[x]!);
-    count(OWL_SAME_AS, a);
-    await sink.write(term(x), OWL_SAME_AS, term(y), a);
-    await step();
+    if (!named[x] || !named[y]) continue;
+    const a = asserted.has(-1, terms[x]!, terms[y]!) || asserted.has(-1, terms[y]!, terms[x]!);
+    sameCount.entailed++; if (a) sameCount.asserted++;
+    const r = sink.write(names[x]!, OWL_SAME_AS, names[y]!, a);
+    if (r) await r;
+    if ((++written & 65535) === 0) await pause();
+  }
+  for (const [p, c] of Object.entries(perPredicate)) {
+    if (c.entailed === 0) delete perPredicate[p];
+    else { entailedFacts += c.entailed; assertedFacts += c.asserted; }
   }
   let individuals = 0;
-  for (const t of input.individualTerms) if (isNamed(dictionary.term(t))) individuals++;
+  for (let i = 0; i < n; i++) individuals += named[i]!;
   return { assertedFacts, entailedFacts, perPredicate, individuals, dataPropertyFacts: abox.dataFactCount };
 }
 

@@ -146,11 +146,19 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
       if (key !== null) cache.set(key, result.clash);
       return { status: 'inconsistent', clash: remap(result.clash, local), stats };
     }
-    const facts = result.facts!;
-    if (key !== null) cache.set(key, facts.unary.filter((_, i) => i % 2 === 0));
-    for (let i = 0; i < facts.unary.length; i += 2) sink.unary(compiled.unaryNames[facts.unary[i]!]!, local[facts.unary[i + 1]!]!);
-    for (let i = 0; i < facts.binary.length; i += 3) sink.binary(compiled.binaryNames[facts.binary[i]!]!, local[facts.binary[i + 1]!]!, local[facts.binary[i + 2]!]!);
-    for (let i = 0; i < facts.same.length; i += 2) sink.same(local[facts.same[i]!]!, local[facts.same[i + 1]!]!);
+    const names = compiled.unaryNames, roles = compiled.binaryNames;
+    if (result.live) {
+      const classes: number[] = [];
+      forEachNamedFact(result.live, (p, e) => { sink.unary(names[p]!, local[e]!); if (key !== null) classes.push(p); },
+        (p, x, y) => sink.binary(roles[p]!, local[x]!, local[y]!), (a, b) => sink.same(local[a]!, local[b]!));
+      if (key !== null) cache.set(key, classes);
+    } else {
+      const facts = result.facts!;
+      if (key !== null) cache.set(key, facts.unary.filter((_, i) => i % 2 === 0));
+      for (let i = 0; i < facts.unary.length; i += 2) sink.unary(names[facts.unary[i]!]!, local[facts.unary[i + 1]!]!);
+      for (let i = 0; i < facts.binary.length; i += 3) sink.binary(roles[facts.binary[i]!]!, local[facts.binary[i + 1]!]!, local[facts.binary[i + 2]!]!);
+      for (let i = 0; i < facts.same.length; i += 2) sink.same(local[facts.same[i]!]!, local[facts.same[i + 1]!]!);
+    }
     if (options.onComponent && (c & 255) === 255) await options.onComponent(c + 1, comp.count);
   }
   stats.branches = guard.branches;
@@ -166,22 +174,33 @@ function remap(clash: ClashReport | null, local: readonly number[]): ClashReport
 /** Named facts of one model: flat (pred, e) / (pred, s, o) / (a, b) arrays over local ids; ⊤ and ≉ left out. */
 interface NamedFacts { unary: number[]; binary: number[]; same: number[] }
 
-function namedFacts(chase: Chase): NamedFacts {
-  const st = chase.store, n = st.named, out: NamedFacts = { unary: [], binary: [], same: [] };
-  const membersOf = new Map<number, number[]>();
-  for (let e = 0; e < n; e++) { const r = st.find(e); let m = membersOf.get(r); if (!m) membersOf.set(r, (m = [])); m.push(e); }
-  for (const [r, m] of membersOf) {
+/** Calls back every named fact of the chase's current branch (local ids; ⊤ and ≉ left out, merged individuals expanded). */
+function forEachNamedFact(chase: Chase, unary: (p: number, e: number) => void, binary: (p: number, s: number, o: number) => void, same: (a: number, b: number) => void): void {
+  const st = chase.store, n = st.named;
+  // Members of each representative: a linked list through `nextMember` (rep → first member).
+  const first = new Int32Array(n).fill(-1), nextMember = new Int32Array(n).fill(-1);
+  for (let e = n - 1; e >= 0; e--) { const r = st.find(e); nextMember[e] = first[r]!; first[r] = e; }
+  for (let r = 0; r < n; r++) {
+    if (first[r]! < 0) continue;
+    const single = nextMember[first[r]!]! < 0;
     for (let row = st.firstUnaryAbout(r); row >= 0; row = st.nextUnaryByElem(row)) {
       const p = st.unaryPred[row]!;
-      if (p !== TOP_ID) for (const e of m) out.unary.push(p, e);
+      if (p === TOP_ID) continue;
+      if (single) unary(p, r); else for (let e = first[r]!; e >= 0; e = nextMember[e]!) unary(p, e);
     }
     for (let row = st.firstBinaryWithSubject(r); row >= 0; row = st.nextBinaryWithSubject(row)) {
       const p = st.binaryPred[row]!, o = st.binaryObj[row]!;
       if (p === DISTINCT_ID || o >= n || !st.binaryValid(row)) continue;
-      for (const s of m) for (const t of membersOf.get(o)!) out.binary.push(p, s, t);
+      if (single && nextMember[first[o]!]! < 0) binary(p, r, o);
+      else for (let x = first[r]!; x >= 0; x = nextMember[x]!) for (let y = first[o]!; y >= 0; y = nextMember[y]!) binary(p, x, y);
     }
-    if (m.length > 1) for (const a of m) for (const b of m) if (a !== b) out.same.push(a, b);
+    if (!single) for (let a = first[r]!; a >= 0; a = nextMember[a]!) for (let b = first[r]!; b >= 0; b = nextMember[b]!) if (a !== b) same(a, b);
   }
+}
+
+function namedFacts(chase: Chase): NamedFacts {
+  const out: NamedFacts = { unary: [], binary: [], same: [] };
+  forEachNamedFact(chase, (p, e) => out.unary.push(p, e), (p, s, o) => out.binary.push(p, s, o), (a, b) => out.same.push(a, b));
   return out;
 }
 
@@ -239,21 +258,21 @@ function holdsKey(chase: Chase, key: string): number {
  * on. Plain: one chronological search with the constraint "all remaining candidates → ⊥", shrinking the candidates
  * to what each new model shares with the earlier ones (at most |candidates| + 1 models).
  */
-function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; clash?: ClashReport | null } {
+function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; live?: Chase; clash?: ClashReport | null } {
   const chase = new Chase(program, named, guard);
   load(chase);
   if (chase.clash !== null) return { clash: clashReport(chase) };
   let firstClash: ClashReport | null | undefined;
   let certain = new Set<string>();
   let candidates: string[] | null = null;
-  let only: NamedFacts | null = null;
+  let only = false;
   const onClash = (c: Chase) => { if (firstClash === undefined) firstClash = clashReport(c); };
   let models = search(chase, guard, {
     onRoot: (c) => { certain = keyOf(namedFacts(c)); },
     onClash,
     violated: plain ? (c) => allHold(c, candidates) : undefined,
     onModel: (c, choices) => {
-      if (choices === 0 && candidates === null) { only = namedFacts(c); return true; }
+      if (choices === 0 && candidates === null) { only = true; return true; }
       const model = keyOf(namedFacts(c));
       candidates = candidates === null ? [...model].filter((k) => !certain.has(k)) : candidates.filter((k) => model.has(k));
       return !plain || candidates.length === 0;
@@ -264,7 +283,8 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
     if (firstClash === undefined && chase.clash !== null) firstClash = clashReport(chase);
     return { clash: firstClash ?? null };
   }
-  if (only !== null) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { facts: only }; }
+  // The only model is still the chase's state (no choice to undo): its facts are read off the store directly.
+  if (only) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { live: chase }; }
   const entailed: string[] = [];
   if (!plain) {
     let open = candidates ?? [];

@@ -84,6 +84,16 @@ export class FactBuffer implements EntailedSink {
 
   get size(): number { return this.u[0]!.length + this.b[0]!.length + this.s[0]!.length; }
 
+  /** Unary rows as columns (predicate index in unaryNames, individual) and their count. */
+  unaryColumns(): { pred: Int32Array; ind: Int32Array; length: number } {
+    return { pred: this.u[0]!.data, ind: this.u[1]!.data, length: this.u[0]!.length };
+  }
+
+  /** Binary rows as columns (predicate index in binaryNames, subject, object) and their count. */
+  binaryColumns(): { pred: Int32Array; subj: Int32Array; obj: Int32Array; length: number } {
+    return { pred: this.b[0]!.data, subj: this.b[1]!.data, obj: this.b[2]!.data, length: this.b[0]!.length };
+  }
+
   *unaryFacts(): IterableIterator<[string, number]> {
     const [p, e] = this.u;
     for (let i = 0; i < p!.length; i++) yield [this.unaryNames[p!.data[i]!]!, e!.data[i]!];

@@ -8,16 +8,15 @@ import { parseArgs } from './core-args.js';
 
 /** Buffers N-Triples lines into large writes (stdout is the hot path for big results). */
 class NTriplesOut implements FactSink {
-  private chunk: string[] = [];
-  private size = 0;
+  private chunk = '';
   write(s: string, p: string, o: string): void | Promise<void> {
-    const line = `<${s}> <${p}> <${o}> .\n`;
-    this.chunk.push(line); this.size += line.length;
-    if (this.size > 1 << 20) return this.flush();
+    // String concatenation builds a rope; it is flattened once per chunk when written.
+    this.chunk += `<${s}> <${p}> <${o}> .\n`;
+    if (this.chunk.length > 1 << 20) return this.flush();
   }
   flush(): Promise<void> {
-    const text = this.chunk.join('');
-    this.chunk = []; this.size = 0;
+    const text = this.chunk;
+    this.chunk = '';
     return new Promise((resolve, reject) => process.stdout.write(text, (e) => (e ? reject(e) : resolve())));
   }
 }
