@@ -57,7 +57,7 @@ export interface LoadDatasetsOptions {
 /** Guesses the ontology format: declared, else by extension, else by the first bytes. */
 export function ontologyFormat(path: string, head: string, declared?: OntologyFormat): OntologyFormat {
   if (declared) return declared;
-  if (/\.(ofn|fss|omn)$/i.test(path)) return 'ofn';
+  if (/\.(ofn|fss)$/i.test(path)) return 'ofn';
   if (/\.(ttl|turtle)$/i.test(path)) return 'turtle';
   if (/\.nt$/i.test(path)) return 'ntriples';
   if (/\.(rdf|xml)$/i.test(path)) return 'rdfxml';
