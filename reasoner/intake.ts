@@ -69,6 +69,13 @@ export function ontologyFormat(path: string, head: string, declared?: OntologyFo
 
 const DEFAULT_MAX_BYTES = 512 * 1024 * 1024;
 
+/** True when the XML document's root element is OWL/XML's `Ontology` rather than `rdf:RDF` (or a node element). */
+function isOwlXml(text: string): boolean {
+  const head = text.slice(0, 1 << 16).replace(/<\?[\s\S]*?\?>|<!--[\s\S]*?-->|<!DOCTYPE[^[>]*(\[[\s\S]*?\])?\s*>/g, '');
+  const root = /<([A-Za-z_][\w.\-]*:)?([A-Za-z_][\w.\-]*)/.exec(head);
+  return !!root && root[2] === 'Ontology' && !/^rdf:/.test(root[1] ?? '');
+}
+
 /** Returns `file:line:column` of the first invalid UTF-8 byte. */
 function badUtf8Position(name: string, bytes: Uint8Array): string {
   const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -112,6 +119,9 @@ export async function loadOntology(source: OntologySource, opts: LoadOntologyOpt
   const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
   const format = ontologyFormat(name, text.slice(0, 512), source.format);
   const diagnostics: Diagnostic[] = [];
+  if (format === 'rdfxml' && isOwlXml(text)) {
+    throw inputError(name, 'this is OWL/XML (root element Ontology), which Thence does not read: save it as Functional-Style Syntax, Turtle or RDF/XML');
+  }
   let ontology: Ontology;
   try {
     if (format === 'ofn') {

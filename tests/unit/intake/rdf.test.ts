@@ -137,3 +137,17 @@ describe('reverse mapping inverts the forward mapping on random class expression
     }), { numRuns: 200 });
   });
 });
+
+describe('unsupported syntaxes get a clear message', () => {
+  it('OWL/XML is recognised and refused by name', async () => {
+    const owlXml = '<?xml version="1.0"?>\n<Ontology xmlns="http://www.w3.org/2002/07/owl#" ontologyIRI="http://e/o">\n<Declaration><Class IRI="#A"/></Declaration>\n</Ontology>\n';
+    const err = await loadOntology({ path: 'o.owl' }, { text: owlXml }).catch((e) => e);
+    expect(err).toBeInstanceOf(InputError);
+    expect(err.diagnostics[0].message).toMatch(/OWL\/XML/);
+  });
+  it('RDF/XML in a .owl file is sniffed and read', async () => {
+    const { ontology } = await loadOntology({ path: 'o.owl' }, { text: '<?xml version="1.0"?>\n<rdf:RDF xmlns:rdf="http://www.w3.org/1999/02/22-rdf-syntax-ns#" xmlns:owl="http://www.w3.org/2002/07/owl#">\n<owl:Class rdf:about="http://e/A"/>\n</rdf:RDF>\n' });
+    expect(ontology.format).toBe('rdfxml');
+    expect(ontology.axioms).toHaveLength(1);
+  });
+});
