@@ -119,6 +119,9 @@ export async function loadOntology(source: OntologySource, opts: LoadOntologyOpt
   const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
   const format = ontologyFormat(name, text.slice(0, 512), source.format);
   const diagnostics: Diagnostic[] = [];
+  if (!source.format && /^(\uFEFF)?(\s|#[^\n]*\n)*(Prefix|Ontology):\s/.test(text.slice(0, 4096))) {
+    throw inputError(name, 'this looks like Manchester syntax ("Prefix:" / "Ontology:"), which Thence does not read: save it as Functional-Style Syntax, Turtle or RDF/XML');
+  }
   if (format === 'rdfxml' && isOwlXml(text)) {
     throw inputError(name, 'this is OWL/XML (root element Ontology), which Thence does not read: save it as Functional-Style Syntax, Turtle or RDF/XML');
   }
