@@ -4,7 +4,7 @@ import type { RequestHandler } from 'express';
 import type { AppContext } from '../context.js';
 import { badRequest } from '../http/errors.js';
 import { InvalidCursorError, lookupFacts, type FactPattern, type PublishedVersion } from '../services/factStore.js';
-import { canonicalLiteral, isIri, isNTriplesLiteral } from './terms.js';
+import { canonicalLiteral, isIri, isNTriplesLiteral, sendJson } from './terms.js';
 
 export const DEFAULT_LIMIT = 100;
 export const MAX_LIMIT = 1000;
@@ -63,10 +63,10 @@ export function factsHandler(ctx: AppContext): RequestHandler {
       const kb = { slug: req.params.slug, version: version.number };
       if (all) {
         const fact = page.facts[0];
-        res.json({ kb, fact: { subject: pattern.subject, predicate: pattern.predicate, object: pattern.object }, entailed: !!fact, asserted: fact ? fact.asserted : false });
+        sendJson(res, { kb, fact: { subject: pattern.subject, predicate: pattern.predicate, object: pattern.object }, entailed: !!fact, asserted: fact ? fact.asserted : false });
         return;
       }
-      res.json({ kb, pattern, facts: page.facts, nextCursor: page.nextCursor });
+      sendJson(res, { kb, pattern, facts: page.facts, nextCursor: page.nextCursor });
     } catch (error) {
       next(error);
     }

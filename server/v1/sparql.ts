@@ -6,12 +6,14 @@ import sparqljs from 'sparqljs';
 import type { AppContext } from '../context.js';
 import { HttpError } from '../http/errors.js';
 import { lookupFacts, MAX_PAGE_SIZE, type FactPattern, type PublishedVersion, type StoredFact } from '../services/factStore.js';
-import { jsonTerm, storedFromQueryTerm, type JsonTerm, type SparqlTermLike } from './terms.js';
+import { jsonTerm, sendJson, storedFromQueryTerm, type JsonTerm, type SparqlTermLike } from './terms.js';
 
 export const SUPPORTED = 'Supported: ASK or SELECT (variables or *) over exactly one triple pattern, with optional LIMIT and OFFSET; PREFIX and BASE may be used.';
 /** Results without LIMIT stop here (the facts endpoint pages without bound); OFFSET + LIMIT may reach MAX_WINDOW. */
 export const MAX_UNLIMITED = 10_000;
 export const MAX_WINDOW = 100_000;
+/** SPARQL 1.1 Query Results JSON Format §5 (Internet media type). */
+const RESULTS_TYPE = 'application/sparql-results+json; charset=utf-8';
 
 const unsupported = (what: string) => new HttpError(400, `${what} is not supported here. ${SUPPORTED}`, 'unsupported_query');
 
@@ -139,7 +141,7 @@ export function sparqlHandler(ctx: AppContext): RequestHandler {
       const query = parseSinglePatternQuery(queryText(req));
       if (query.form === 'ASK') {
         const { facts } = await solutions(ctx, version, query, 1);
-        res.type('application/sparql-results+json; charset=utf-8').send(JSON.stringify({ head: {}, boolean: facts.length > 0 }));
+        sendJson(res, { head: {}, boolean: facts.length > 0 }, RESULTS_TYPE);
         return;
       }
       const wanted = query.limit === null ? MAX_UNLIMITED : query.offset + query.limit;
@@ -148,7 +150,7 @@ export function sparqlHandler(ctx: AppContext): RequestHandler {
         throw new HttpError(400, `The query has more than ${MAX_UNLIMITED} solutions; add LIMIT (and OFFSET to page), or use the facts endpoint's cursor.`, 'too_many_solutions');
       }
       const bindings = facts.slice(query.offset).map((f) => binding(f, query));
-      res.type('application/sparql-results+json; charset=utf-8').send(JSON.stringify({ head: { vars: query.projection }, results: { bindings } }));
+      sendJson(res, { head: { vars: query.projection }, results: { bindings } }, RESULTS_TYPE);
     } catch (error) {
       next(error);
     }

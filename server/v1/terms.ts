@@ -1,5 +1,6 @@
 // Term conversion between the API's inputs, the fact store's stored form (bare IRIs, `_:b` blank nodes, canonical
 // N-Triples literals) and the W3C SPARQL 1.1 Query Results JSON Format (§3.2.2, "Encoding RDF terms").
+import type { Response } from 'express';
 import { literalToNTriples, parseStoredLiteral } from '../../reasoner/syntax/terms.js';
 
 const XSD_STRING = 'http://www.w3.org/2001/XMLSchema#string';
@@ -50,4 +51,15 @@ export function jsonTerm(stored: string): JsonTerm {
   }
   if (stored.startsWith('_:')) return { type: 'bnode', value: stored.slice(2) };
   return { type: 'uri', value: stored };
+}
+
+/**
+ * Writes a JSON answer with res.end, not res.json: Express would hash every body for an ETag, work that a query answer
+ * (rarely revalidated, and cheap to recompute) does not need on the hot path.
+ */
+export function sendJson(res: Response, body: unknown, type = 'application/json; charset=utf-8'): void {
+  const text = JSON.stringify(body);
+  res.setHeader('Content-Type', type);
+  res.setHeader('Content-Length', Buffer.byteLength(text));
+  res.end(text);
 }
