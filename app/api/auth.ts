@@ -16,11 +16,17 @@ export async function fetchCurrentUser(): Promise<SessionUser | null> {
   return body.user;
 }
 
-export async function signUp(request: SignUpRequest): Promise<SessionUser> {
-  const body = await api.post<UserBody>('/api/auth/sign-up', request);
+export interface SignUpResult {
+  user: SessionUser;
+  /** False when the account exists but the verification mail could not be sent (the user can ask again). */
+  verificationMailSent: boolean;
+}
+
+export async function signUp(request: SignUpRequest): Promise<SignUpResult> {
+  const body = await api.post<UserBody & { verificationMailSent?: boolean }>('/api/auth/sign-up', request);
   // The session was regenerated on sign-in, and the CSRF token is bound to it.
   resetCsrf();
-  return body.user;
+  return { user: body.user, verificationMailSent: body.verificationMailSent !== false };
 }
 
 export async function signIn(request: SignInRequest): Promise<SessionUser> {

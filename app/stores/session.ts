@@ -42,9 +42,10 @@ export const useSessionStore = defineStore('session', () => {
     return user.value;
   }
 
-  async function signUp(request: SignUpRequest): Promise<SessionUser> {
-    user.value = await auth.signUp(request);
-    return user.value;
+  async function signUp(request: SignUpRequest): Promise<auth.SignUpResult> {
+    const result = await auth.signUp(request);
+    user.value = result.user;
+    return result;
   }
 
   async function signOut(): Promise<void> {
