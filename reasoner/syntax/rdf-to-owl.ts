@@ -1,29 +1,10 @@
 // Turns an RDF graph into OWL 2 axioms: the reverse of the W3C OWL 2 Mapping to RDF Graphs (§3: Tables 8–18; axiom annotations §3.2.5).
 
-import type { Annotation, AnnotationValue, AxiomInit, ClassExpression, DataRange, EntityKind, Literal, Ontology, Position, PropertyRef } from '../model/axioms.js';
+import type { Annotation, AnnotationValue, AxiomInit, ClassExpression, DataRange, Literal, Ontology, Position, PropertyRef } from '../model/axioms.js';
 import { OWL, RDF, RDFS, RDF_FIRST, RDF_NIL, RDF_REST, RDF_TYPE, XSD, isReservedIri } from '../model/vocabulary.js';
+import { BUILTIN_ANNOTATION, CHARACTERISTIC, ENTITY_TYPES, GENERATOR_TYPES, STRUCTURAL, STRUCTURAL_TYPES, o } from './rdf-owl-vocabulary.js';
 import { RdfSyntaxError, tripleText, type RdfTerm, type RdfTriple } from './rdf-graph.js';
 
-const o = (l: string) => OWL + l;
-const ENTITY_TYPES: Record<string, EntityKind> = {
-  [o('Class')]: 'Class', [RDFS + 'Datatype']: 'Datatype', [o('ObjectProperty')]: 'ObjectProperty',
-  [o('DatatypeProperty')]: 'DataProperty', [o('AnnotationProperty')]: 'AnnotationProperty', [o('NamedIndividual')]: 'NamedIndividual',
-};
-const CHARACTERISTIC: Record<string, string> = {
-  [o('InverseFunctionalProperty')]: 'InverseFunctionalObjectProperty', [o('ReflexiveProperty')]: 'ReflexiveObjectProperty',
-  [o('IrreflexiveProperty')]: 'IrreflexiveObjectProperty', [o('SymmetricProperty')]: 'SymmetricObjectProperty',
-  [o('AsymmetricProperty')]: 'AsymmetricObjectProperty', [o('TransitiveProperty')]: 'TransitiveObjectProperty',
-};
-/** Built-in annotation properties (Structural Specification §5.5). */
-const BUILTIN_ANNOTATION = new Set([RDFS + 'label', RDFS + 'comment', RDFS + 'seeAlso', RDFS + 'isDefinedBy', o('deprecated'),
-  o('versionInfo'), o('priorVersion'), o('backwardCompatibleWith'), o('incompatibleWith')]);
-/** Predicates whose triples on a blank node belong to a class expression, data range, list or inverse (Tables 8–13). */
-const STRUCTURAL = new Set([RDF_FIRST, RDF_REST, o('intersectionOf'), o('unionOf'), o('complementOf'), o('oneOf'), o('onProperty'),
-  o('onProperties'), o('someValuesFrom'), o('allValuesFrom'), o('hasValue'), o('hasSelf'), o('minCardinality'), o('maxCardinality'),
-  o('cardinality'), o('minQualifiedCardinality'), o('maxQualifiedCardinality'), o('qualifiedCardinality'), o('onClass'), o('onDataRange'),
-  o('inverseOf'), o('onDatatype'), o('withRestrictions'), o('datatypeComplementOf')]);
-const STRUCTURAL_TYPES = new Set([o('Restriction'), o('Class'), RDFS + 'Datatype', RDF + 'List']);
-const GENERATOR_TYPES = new Set([o('AllDisjointClasses'), o('AllDisjointProperties'), o('AllDifferent'), o('NegativePropertyAssertion'), o('Axiom'), o('Annotation')]);
 const MAX_DEPTH = 1000;
 const REIFICATION = new Set([o('annotatedSource'), o('annotatedProperty'), o('annotatedTarget')]);
 
