@@ -5,7 +5,8 @@ import os from 'node:os';
 import type { AppContext } from '../context.js';
 import type { FactSink, ReasonOptions, ReasonResult } from '../../reasoner/api.js';
 import { reason } from '../../reasoner/index.js';
-import { dropFactTables, FactLoader, type LoadStats } from './factStore.js';
+import { dropFactTables } from './factStore.js';
+import { FactLoader, type LoadStats } from './factLoader.js';
 import { appendLog, listFiles, loadVersion, type StoredCounts } from './versions.js';
 import { notifyVersionFinished } from './publishing.js';
 
