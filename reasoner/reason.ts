@@ -14,6 +14,8 @@ import { entail, type ClashReport } from './chase/entail.js';
 import { CancelledError, Guard, ResourceLimitError } from './chase/guard.js';
 import { buildChaseInput, FactBuffer } from './chase/input.js';
 
+import { availableParallelism } from 'node:os';
+
 const now = () => performance.now();
 
 /** Waits for the next macrotask, so that an abort requested meanwhile is seen. */
@@ -65,7 +67,7 @@ export async function reason(options: ReasonOptions, sink: FactSink): Promise<Re
     const guard = new Guard(options.limits, signal);
     const buffer = new FactBuffer();
     const outcome = await entail(chaseProgram, input, buffer, {
-      guard,
+      guard, threads: options.threads ?? availableParallelism(), limits: options.limits, signal,
       onComponent: async (done, total) => { options.onProgress?.({ stage: 'materialise', fraction: 0.9 * done / total }); await yieldToEvents(); },
     });
     if (outcome.status === 'inconsistent') {
@@ -77,6 +79,7 @@ export async function reason(options: ReasonOptions, sink: FactSink): Promise<Re
     timings.anonymousElements = outcome.stats.anonymousElements;
     timings.branches = outcome.stats.branches;
     timings.components = outcome.stats.components;
+    timings.threads = outcome.stats.threads;
     options.onProgress?.({ stage: 'materialise', fraction: 1 });
     return { status: 'ok', profile: profileReport, rewriting: stats, program: programText, counts, timings, diagnostics };
   } catch (error) {

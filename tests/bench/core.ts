@@ -111,7 +111,7 @@ async function disjunctive10k(): Promise<void> {
   for (let r = 0; r < runs; r++) {
     const sink = new CountingSink();
     const t0 = performance.now();
-    const outcome = await entail(program, input, sink, { guard: new Guard() });
+    const outcome = await entail(program, input, sink, { guard: new Guard(), threads: Number(process.env.THREADS ?? 1) });
     times.push(performance.now() - t0);
     stats = outcome.stats; facts = sink.n;
     if (outcome.status !== 'ok') console.log('(inconsistent)');

@@ -33,3 +33,27 @@ describe('plain against optimised chase', () => {
     expect(plain?.has('B(a)')).toBe(true);
   });
 });
+
+describe('worker threads', () => {
+  it('components chased in two workers give the same facts as on one thread', async () => {
+    const { rewriteOntology } = await import('../../../reasoner/rewrite/rules-from-normal.js');
+    const { entail } = await import('../../../reasoner/chase/entail.js');
+    const { Guard } = await import('../../../reasoner/chase/guard.js');
+    const { disjunctiveCatalogue, randomAbox } = await import('../../bench/core-generators.js');
+    const onto = disjunctiveCatalogue();
+    const program = rewriteOntology({ axioms: onto.axioms, classes: onto.classes, properties: onto.properties, assertions: [] });
+    // Our own catalogue scenario (tests/bench/core-generators.ts): edges stay in blocks of 4, so many components.
+    const input = randomAbox(200, 1, 1, 10, 2, 9, 4);
+    const run = async (threads: number) => {
+      const facts: string[] = [];
+      const outcome = await entail(program, input, { unary: (c, i) => facts.push(`${c} ${i}`), binary: (p, s, o) => facts.push(`${p} ${s} ${o}`), same: (a, b) => facts.push(`= ${a} ${b}`) },
+        { guard: new Guard(), threads, minFactsForThreads: 0 });
+      return { status: outcome.status, threads: outcome.stats.threads, facts: facts.sort() };
+    };
+    const one = await run(1), two = await run(2);
+    expect(two.threads).toBe(2);
+    expect(two.status).toBe(one.status);
+    expect(two.facts).toEqual(one.facts);
+    expect(one.facts.length).toBeGreaterThan(200);
+  }, 60_000);
+});

@@ -1,0 +1,195 @@
+// One connected component of the ABox, chased on its own: its facts over local ids in, its entailed facts out
+// (or the clash that closes every branch). Used on the main thread and in worker threads alike.
+
+import { Chase } from './engine.js';
+import type { Guard } from './guard.js';
+import type { CompiledProgram } from './program.js';
+import { search } from './search.js';
+import { DISTINCT_ID, TOP_ID } from './store.js';
+import type { ClashReport, EntailStats } from './entail.js';
+
+/** A component's input over local individual ids 0..named-1 and compiled predicate ids (flat tuples). */
+export interface ComponentTask {
+  readonly named: number;
+  /** (pred, e) pairs */
+  readonly unary: Int32Array;
+  /** (pred, s, o) triples */
+  readonly binary: Int32Array;
+  /** (a, b) pairs */
+  readonly same: Int32Array;
+  readonly different: Int32Array;
+}
+
+/** Receives a component's entailed facts over local ids and compiled predicate ids. */
+export interface LocalSink {
+  unary(p: number, e: number): void;
+  binary(p: number, s: number, o: number): void;
+  same(a: number, b: number): void;
+}
+
+/** Chases one component and emits its entailed facts; returns undefined if consistent, else the clash (or null). */
+export function runComponent(program: CompiledProgram, task: ComponentTask, guard: Guard, plain: boolean, stats: EntailStats, sink: LocalSink): ClashReport | null | undefined {
+  const load = (chase: Chase) => {
+    const st = chase.store, u = task.unary, b = task.binary, d = task.different, q = task.same;
+    for (let i = 0; i < u.length; i += 2) st.addUnary(u[i]!, u[i + 1]!, -1);
+    for (let i = 0; i < b.length; i += 3) st.addBinary(b[i]!, b[i + 1]!, b[i + 2]!, -1);
+    for (let i = 0; i < d.length; i += 2) chase.addDistinct(d[i]!, d[i + 1]!, -1);
+    for (let i = 0; i < q.length; i += 2) if (!chase.merge(q[i]!, q[i + 1]!, -1, [q[i]!, q[i + 1]!])) return;
+  };
+  const result = chaseComponent(program, Math.max(1, task.named), load, guard, plain, stats);
+  if (result.clash !== undefined) return result.clash;
+  if (result.live) forEachNamedFact(result.live, (p, e) => sink.unary(p, e), (p, x, y) => sink.binary(p, x, y), (a, b) => sink.same(a, b));
+  else {
+    const f = result.facts!;
+    for (let i = 0; i < f.unary.length; i += 2) sink.unary(f.unary[i]!, f.unary[i + 1]!);
+    for (let i = 0; i < f.binary.length; i += 3) sink.binary(f.binary[i]!, f.binary[i + 1]!, f.binary[i + 2]!);
+    for (let i = 0; i < f.same.length; i += 2) sink.same(f.same[i]!, f.same[i + 1]!);
+  }
+  return undefined;
+}
+
+/** Maps a clash over local ids to input ids (anonymous elements keep their negative ids). */
+export function remap(clash: ClashReport | null, local: readonly number[]): ClashReport | null {
+  if (clash === null) return null;
+  return { rule: clash.rule, facts: clash.facts.map((f) => ({ ...f, args: f.args.map((a) => (a >= 0 ? local[a]! : a)) })) };
+}
+
+/** Named facts of one model: flat (pred, e) / (pred, s, o) / (a, b) arrays over local ids; ⊤ and ≉ left out. */
+interface NamedFacts { unary: number[]; binary: number[]; same: number[] }
+
+/** Calls back every named fact of the chase's current branch (local ids; ⊤ and ≉ left out, merged individuals expanded). */
+function forEachNamedFact(chase: Chase, unary: (p: number, e: number) => void, binary: (p: number, s: number, o: number) => void, same: (a: number, b: number) => void): void {
+  const st = chase.store, n = st.named;
+  // Members of each representative: a linked list through `nextMember` (rep → first member).
+  const first = new Int32Array(n).fill(-1), nextMember = new Int32Array(n).fill(-1);
+  for (let e = n - 1; e >= 0; e--) { const r = st.find(e); nextMember[e] = first[r]!; first[r] = e; }
+  for (let r = 0; r < n; r++) {
+    if (first[r]! < 0) continue;
+    const single = nextMember[first[r]!]! < 0;
+    for (let row = st.firstUnaryAbout(r); row >= 0; row = st.nextUnaryByElem(row)) {
+      const p = st.unaryPred[row]!;
+      if (p === TOP_ID) continue;
+      if (single) unary(p, r); else for (let e = first[r]!; e >= 0; e = nextMember[e]!) unary(p, e);
+    }
+    for (let row = st.firstBinaryWithSubject(r); row >= 0; row = st.nextBinaryWithSubject(row)) {
+      const p = st.binaryPred[row]!, o = st.binaryObj[row]!;
+      if (p === DISTINCT_ID || o >= n || !st.binaryValid(row)) continue;
+      if (single && nextMember[first[o]!]! < 0) binary(p, r, o);
+      else for (let x = first[r]!; x >= 0; x = nextMember[x]!) for (let y = first[o]!; y >= 0; y = nextMember[y]!) binary(p, x, y);
+    }
+    if (!single) for (let a = first[r]!; a >= 0; a = nextMember[a]!) for (let b = first[r]!; b >= 0; b = nextMember[b]!) if (a !== b) same(a, b);
+  }
+}
+
+function namedFacts(chase: Chase): NamedFacts {
+  const out: NamedFacts = { unary: [], binary: [], same: [] };
+  forEachNamedFact(chase, (p, e) => out.unary.push(p, e), (p, s, o) => out.binary.push(p, s, o), (a, b) => out.same.push(a, b));
+  return out;
+}
+
+function clashReport(chase: Chase): ClashReport | null {
+  const clash = chase.clash;
+  if (clash === null) return null;
+  const rule = chase.program.rules[clash.rule];
+  const st = chase.store, facts: ClashReport['facts'][number][] = [];
+  const named = (e: number) => (e < st.named ? e : -1 - (e - st.named));
+  if (rule) for (const a of rule.body) {
+    const args = a.kind === 0 ? [clash.env[a.a]!] : [clash.env[a.a]!, clash.env[a.b]!];
+    const row = a.kind === 0 ? st.unaryRow(a.pred, st.find(args[0]!)) : st.binaryRow(a.pred, st.find(args[0]!), st.find(args[1]!));
+    const derivedBy = row < 0 ? -1 : a.kind === 0 ? st.unaryRule[row]! : st.binaryRule[row]!;
+    const predicate = a.kind === 0 ? chase.program.unaryNames[a.pred]! : chase.program.binaryNames[a.pred]!;
+    facts.push({ predicate, args: args.map(named), derivedBy });
+  }
+  if (clash.distinct) facts.push({ predicate: '≉', args: clash.distinct.map(named), derivedBy: -1 });
+  return { rule: clash.rule, facts };
+}
+
+const keyOf = (f: NamedFacts) => {
+  const s = new Set<string>();
+  for (let i = 0; i < f.unary.length; i += 2) s.add(`u${f.unary[i]} ${f.unary[i + 1]}`);
+  for (let i = 0; i < f.binary.length; i += 3) s.add(`b${f.binary[i]} ${f.binary[i + 1]} ${f.binary[i + 2]}`);
+  for (let i = 0; i < f.same.length; i += 2) s.add(`s${f.same[i]} ${f.same[i + 1]}`);
+  return s;
+};
+
+function factsOfKeys(keys: Iterable<string>): NamedFacts {
+  const out: NamedFacts = { unary: [], binary: [], same: [] };
+  for (const k of keys) {
+    const nums = k.slice(1).split(' ').map(Number);
+    (k[0] === 'u' ? out.unary : k[0] === 'b' ? out.binary : out.same).push(...nums);
+  }
+  return out;
+}
+
+/** If the fact with this key holds in the chase's current branch, its dependency set; else -1. */
+function holdsKey(chase: Chase, key: string): number {
+  const st = chase.store, deps = chase.deps, nums = key.slice(1).split(' ').map(Number);
+  const a = st.find(nums[0]!);
+  if (key[0] === 's') return a === st.find(nums[1]!) ? deps.union(chase.chainDep(nums[0]!), chase.chainDep(nums[1]!)) : -1;
+  const e = st.find(nums[1]!);
+  if (key[0] === 'u') { const r = st.unaryRow(nums[0]!, e); return r < 0 ? -1 : deps.union(st.unaryDep[r]!, chase.chainDep(nums[1]!)); }
+  const o = st.find(nums[2]!);
+  const r = st.binaryRow(nums[0]!, e, o);
+  return r < 0 ? -1 : deps.union(deps.union(st.binaryDep[r]!, chase.chainDep(nums[1]!)), chase.chainDep(nums[2]!));
+}
+
+/**
+ * Chases one component. A model reached without any choice is the only one (always so for Horn programs).
+ * Otherwise the facts true before the first choice are certain, and the candidates are the other facts of the first
+ * model. Optimised: for each candidate f still open, search for a model with the ground constraint f → ⊥; if one
+ * exists, f and every candidate it lacks are not entailed, else f is; each search backjumps to the choices f depends
+ * on. Plain: one chronological search with the constraint "all remaining candidates → ⊥", shrinking the candidates
+ * to what each new model shares with the earlier ones (at most |candidates| + 1 models).
+ */
+function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; live?: Chase; clash?: ClashReport | null } {
+  const chase = new Chase(program, named, guard);
+  load(chase);
+  if (chase.clash !== null) return { clash: clashReport(chase) };
+  let firstClash: ClashReport | null | undefined;
+  let certain = new Set<string>();
+  let candidates: string[] | null = null;
+  let only = false;
+  const onClash = (c: Chase) => { if (firstClash === undefined) firstClash = clashReport(c); };
+  let models = search(chase, guard, {
+    onRoot: (c) => { certain = keyOf(namedFacts(c)); },
+    onClash,
+    violated: plain ? (c) => allHold(c, candidates) : undefined,
+    onModel: (c, choices) => {
+      if (choices === 0 && candidates === null) { only = true; return true; }
+      const model = keyOf(namedFacts(c));
+      candidates = candidates === null ? [...model].filter((k) => !certain.has(k)) : candidates.filter((k) => model.has(k));
+      return !plain || candidates.length === 0;
+    },
+  }, { backjump: !plain });
+  if (models === 0) {
+    stats.models += models;
+    if (firstClash === undefined && chase.clash !== null) firstClash = clashReport(chase);
+    return { clash: firstClash ?? null };
+  }
+  // The only model is still the chase's state (no choice to undo): its facts are read off the store directly.
+  if (only) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { live: chase }; }
+  const entailed: string[] = [];
+  if (!plain) {
+    let open = candidates ?? [];
+    while (open.length > 0) {
+      const f = open.pop()!;
+      let model: Set<string> | null = null;
+      models += search(chase, guard, {
+        violated: (c) => holdsKey(c, f),
+        onModel: (c) => { model = keyOf(namedFacts(c)); return true; },
+      });
+      if (model === null) entailed.push(f);
+      else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
+    }
+  } else entailed.push(...(candidates ?? []));
+  stats.models += models;
+  stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength);
+  return { facts: factsOfKeys([...certain, ...entailed]) };
+}
+
+/** The plain path's constraint: -1 unless every remaining candidate holds (then -2: taken to depend on every choice). */
+function allHold(chase: Chase, candidates: readonly string[] | null): number {
+  if (candidates === null) return -1;
+  for (const k of candidates) if (holdsKey(chase, k) < 0) return -1;
+  return -2;
+}
