@@ -5,7 +5,16 @@ export const SLUG_PATTERN = /^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$/;
 
 const text = (max: number, label: string) => z.string().trim().max(max, `${label}: at most ${max} characters.`);
 
-export const listingCreateSchema = z.object({
+const tagSchema = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .min(1, 'Tags cannot be empty.')
+  .max(32, 'Each tag: at most 32 characters.')
+  .regex(/^[a-z0-9][a-z0-9 -]*$/, 'Tags: letters, digits, spaces and hyphens.');
+
+/** The listing's fields without defaults: the update schema must not fill in fields the request left out. */
+const listingFields = {
   title: text(120, 'Title').min(3, 'Title: at least 3 characters.'),
   slug: z
     .string()
@@ -15,18 +24,18 @@ export const listingCreateSchema = z.object({
     .max(64, 'Slug: at most 64 characters.')
     .regex(SLUG_PATTERN, 'Slug: lower-case letters, digits and inner hyphens only (it becomes part of the API address).'),
   summary: text(280, 'Summary').min(10, 'Summary: at least 10 characters — one sentence on what the knowledge base answers.'),
-  descriptionMd: text(20_000, 'Description').default(''),
-  tags: z
-    .array(z.string().trim().toLowerCase().min(1, 'Tags cannot be empty.').max(32, 'Each tag: at most 32 characters.').regex(/^[a-z0-9][a-z0-9 -]*$/, 'Tags: letters, digits, spaces and hyphens.'))
-    .max(12, 'At most 12 tags.')
-    .default([]),
+  descriptionMd: text(20_000, 'Description'),
+  tags: z.array(tagSchema).max(12, 'At most 12 tags.'),
   licence: text(120, 'Licence').min(2, 'Licence: name the licence under which subscribers may use the facts.'),
   contact: text(200, 'Contact').min(3, 'Contact: an e-mail address or web page where subscribers reach you.'),
-});
+};
+
+export const listingCreateSchema = z.object({ ...listingFields, descriptionMd: listingFields.descriptionMd.default(''), tags: listingFields.tags.default([]) });
 export type ListingCreateRequest = z.infer<typeof listingCreateSchema>;
 
-/** Everything but the slug may change (the slug is part of subscribers' API addresses). */
-export const listingUpdateSchema = listingCreateSchema.omit({ slug: true }).partial();
+/** Everything but the slug may change (the slug is part of subscribers' API addresses); absent fields stay as they are. */
+const { slug: _slug, ...updatable } = listingFields;
+export const listingUpdateSchema = z.object(updatable).partial();
 export type ListingUpdateRequest = z.infer<typeof listingUpdateSchema>;
 
 /** Upload limits, stated in the upload form and enforced by the server. */

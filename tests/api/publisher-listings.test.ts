@@ -98,6 +98,9 @@ describe('listings', () => {
     expect(res.status).toBe(200);
     expect(res.body.listing.title).toBe('Orchard renamed');
     expect(res.body.listing.slug).toBe(listing.slug);
+    // Fields left out of a PATCH keep their values.
+    const again = await alice.patch(`/api/publisher/listings/${listing.id}`).send({ summary: 'Fruit varieties, renamed orchard.' });
+    expect(again.body.listing).toMatchObject({ title: 'Orchard renamed', tags: ['fruit', 'demo'], descriptionMd: '# Orchard', summary: 'Fruit varieties, renamed orchard.' });
     const guest = await guestAgent(t.app);
     const cat = await guest.get('/api/listings');
     expect(cat.status).toBe(200);
