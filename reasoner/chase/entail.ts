@@ -165,8 +165,9 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
     for (const p of hit) sink.unary(names[p]!, local[0]!);
   }
 
-  const threads = Math.min(options.threads ?? 1, rest.length);
-  if (threads > 1 && restSize >= (options.minFactsForThreads ?? 20_000)) {
+  // Workers also when there is one thread but a signal: a worker can be terminated mid-component, this thread cannot.
+  const threads = Math.max(1, Math.min(options.threads ?? 1, rest.length));
+  if ((threads > 1 || options.signal !== undefined) && restSize >= (options.minFactsForThreads ?? 20_000)) {
     stats.threads = threads;
     const outcome = await runInWorkers(full, rest.map(task), threads, { limits: options.limits, path: options.path, signal: options.signal }, (i, result) => {
       const local = members[rest[i]!]!;

@@ -57,3 +57,21 @@ describe('worker threads', () => {
     expect(one.facts.length).toBeGreaterThan(200);
   }, 60_000);
 });
+
+describe('cancellation', () => {
+  it('an abort during one large component stops the chase (its worker is terminated)', async () => {
+    const { rewriteOntology } = await import('../../../reasoner/rewrite/rules-from-normal.js');
+    const { entail } = await import('../../../reasoner/chase/entail.js');
+    const { Guard, CancelledError } = await import('../../../reasoner/chase/guard.js');
+    const { hornDatalogOntology, randomAbox } = await import('../../bench/core-generators.js');
+    const onto = hornDatalogOntology(60, 10);
+    const program = rewriteOntology({ axioms: onto.axioms, classes: onto.classes, properties: onto.properties, assertions: [] });
+    const input = randomAbox(60_000, 1, 3, 60, 10); // one connected component; chasing it takes seconds
+    const controller = new AbortController();
+    setTimeout(() => controller.abort(), 300);
+    let facts = 0;
+    await expect(entail(program, input, { unary: () => facts++, binary: () => facts++, same: () => facts++ },
+      { guard: new Guard({}, controller.signal), threads: 1, signal: controller.signal })).rejects.toBeInstanceOf(CancelledError);
+    expect(facts).toBe(0);
+  }, 60_000);
+});
