@@ -210,11 +210,15 @@ class ReverseMapping {
     return this.fail(p, `restriction ${b} has owl:onProperty but no owl:someValuesFrom, owl:allValuesFrom, owl:hasValue, owl:hasSelf or cardinality`);
   }
 
-  /** Annotations written on a node (reification blank node or generator), i.e. its triples with annotation properties. */
+  /**
+   * Annotations written on an ontology header, an owl:Axiom node or an axiom blank node: every remaining triple
+   * outside the reserved vocabulary (Mapping §3.2.2, §3.2.5) — so undeclared properties such as dc:creator count too.
+   */
   private annotationsOn(node: string): Annotation[] {
     const out: Annotation[] = [];
     for (const t of this.bySubject.get(node) ?? []) {
-      if (this.used.has(t) || t.p === RDF_TYPE || REIFICATION.has(t.p) || !this.isAnnotationProperty(t.p)) continue;
+      if (this.used.has(t) || t.p === RDF_TYPE || REIFICATION.has(t.p)) continue;
+      if (isReservedIri(t.p) && !BUILTIN_ANNOTATION.has(t.p)) continue;
       this.used.add(t);
       out.push({ property: t.p, value: annotationValue(t.o), annotations: [] });
     }

@@ -151,3 +151,12 @@ describe('unsupported syntaxes get a clear message', () => {
     expect(ontology.axioms).toHaveLength(1);
   });
 });
+
+describe('annotations with undeclared properties (common practice: Dublin Core on headers and axioms)', () => {
+  it('reads them as ontology and axiom annotations, not as data facts', async () => {
+    const o = await fromTurtle('@prefix dc: <http://purl.org/dc/elements/1.1/> .\n<http://e/o> a owl:Ontology ; dc:creator "A. Author" .\n:A rdfs:subClassOf :B .\n[] a owl:Axiom ; owl:annotatedSource :A ; owl:annotatedProperty rdfs:subClassOf ; owl:annotatedTarget :B ; dc:source "p. 3" .');
+    expect(o.annotations.map((a) => a.property)).toEqual(['http://purl.org/dc/elements/1.1/creator']);
+    expect(o.axioms).toHaveLength(1);
+    expect(o.axioms[0]!.annotations.map((a) => a.property)).toEqual(['http://purl.org/dc/elements/1.1/source']);
+  });
+});
