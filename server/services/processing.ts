@@ -154,11 +154,14 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     const toStore = loader;
     loader = null;
     await toStore.commit(async (client) => {
-      await client.query(
+      // Only this attempt may finish the version: if a sweep took it for dead and another worker claimed it meanwhile,
+      // the attempt number moved on and this whole load (renames included) rolls back.
+      const { rowCount } = await client.query(
         `UPDATE kb_versions SET status = 'ready', stage = 'store', progress = 1, finished_at = now(), heartbeat_at = NULL, profile = $2, rewriting = $3, program = $4,
-                counts = $5, diagnostics = $6, timings = $7, fact_count = $8 WHERE id = $1`,
-        [versionId, JSON.stringify(result.profile), JSON.stringify(result.rewriting), result.program, JSON.stringify(countsFrom(stats)), JSON.stringify(result.diagnostics), JSON.stringify(timings), stats.facts],
+                counts = $5, diagnostics = $6, timings = $7, fact_count = $8 WHERE id = $1 AND status = 'processing' AND attempts = $9 AND NOT cancel_requested`,
+        [versionId, JSON.stringify(result.profile), JSON.stringify(result.rewriting), result.program, JSON.stringify(countsFrom(stats)), JSON.stringify(result.diagnostics), JSON.stringify(timings), stats.facts, attempts],
       );
+      if (!rowCount) throw new Error('the version was cancelled or taken over by another attempt before it was stored');
     });
     await appendLog(ctx.pool, versionId, `Ready: ${stats.facts} facts (${stats.asserted} asserted, ${stats.facts - stats.asserted} entailed), ${stats.terms} terms.`);
     await notifyVersionFinished(ctx, versionId);
@@ -172,6 +175,14 @@ export async function processVersion(ctx: AppContext, versionId: string, options
       return 'cancelled';
     }
     const message = error instanceof Error ? error.message : String(error);
+    const now = await loadVersion(ctx.pool, versionId);
+    // Another attempt owns the version now (this one was taken for dead): leave its state alone.
+    if (!now || now.attempts !== attempts || now.status !== 'processing') return 'skipped';
+    if (now.cancel_requested) {
+      await finishWith(ctx, versionId, 'cancelled', { stage: null });
+      await appendLog(ctx.pool, versionId, 'Cancelled; no facts were stored.', 'warning');
+      return 'cancelled';
+    }
     if (options.finalAttempt) {
       await finishWith(ctx, versionId, 'failed', { error: `Processing stopped: ${message}` });
       await appendLog(ctx.pool, versionId, `Attempt ${attempts} failed and no retries are left: ${message}`, 'error');
