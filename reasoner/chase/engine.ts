@@ -378,10 +378,13 @@ export class Chase {
   generate(): number {
     const st = this.store, list = this.triggers;
     if (list.length === 0) return 0;
+    // Blocking is computed only when some trigger is still open (it costs a pass over all elements).
+    const open: number[] = [];
+    for (let i = 0; i < list.length; i++) { const rule = this.loadInstance(list, i); if (rule !== null && !this.holds(rule)) open.push(i); }
+    if (open.length === 0) return 0;
     const status = this.blocked();
     let applied = 0;
-    const n = list.length;
-    for (let i = 0; i < n; i++) {
+    for (const i of open) {
       const rule = this.loadInstance(list, i);
       if (rule === null) continue;
       const centre = this.env[rule.center]!;
