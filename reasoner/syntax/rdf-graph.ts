@@ -18,6 +18,8 @@ export interface RdfTriple {
   readonly o: RdfTerm;
   /** Line of the statement where the parser reports it (0 when unknown). */
   readonly line: number;
+  /** Index of the triple in its graph (0, 1, 2, … in reading order). */
+  readonly i: number;
 }
 
 /** An RDF syntax error with the line (and column where known). */
@@ -71,7 +73,7 @@ export function parseTurtle(text: string, format: 'turtle' | 'ntriples', baseIRI
         if (quad.graph.termType !== 'DefaultGraph') return;
         if (quad.subject.termType !== 'NamedNode' && quad.subject.termType !== 'BlankNode') return;
         try {
-          triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line });
+          triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line, i: triples.length });
         } catch (e) { settled = true; reject(e); }
       },
     } as never);
@@ -165,7 +167,7 @@ export async function parseRdfXml(text: string, baseIRI?: string, limits?: XmlLi
     parser.on('data', (quad: Quad) => {
       if (quad.graph.termType !== 'DefaultGraph') return;
       try {
-        triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line: sax?.line ?? 0 });
+        triples.push({ s: fromRdfJs(quad.subject).key, p: quad.predicate.value, o: fromRdfJs(quad.object), line: sax?.line ?? 0, i: triples.length });
       } catch (e) { reject(e); }
     });
     parser.on('error', (e: Error) => {

@@ -10,12 +10,27 @@ const REIFICATION = new Set([o('annotatedSource'), o('annotatedProperty'), o('an
 
 /** Maps a graph to an ontology. Throws RdfSyntaxError naming the triple for malformed structures (bad lists, cycles). */
 export function rdfToOntology(triples: readonly RdfTriple[], source: string, format: Ontology['format'], prefixes: Record<string, string> = {}): Ontology {
-  return new ReverseMapping(triples, source).run(format, prefixes);
+  // Triples must carry their index (the parsers in rdf-graph.ts number them); renumber if a caller did not.
+  const indexed = triples.every((t, i) => t.i === i) ? triples : triples.map((t, i) => ({ ...t, i }));
+  return new ReverseMapping(indexed, source).run(format, prefixes);
+}
+
+type Triple = RdfTriple;
+const NONE: readonly Triple[] = [];
+
+/** Marks of triples consumed by some axiom: one byte per triple rather than a Set of objects. */
+class UsedTriples {
+  private readonly marks: Uint8Array;
+  constructor(size: number) { this.marks = new Uint8Array(size); }
+  add(t: Triple): void { this.marks[t.i] = 1; }
+  has(t: Triple): boolean { return this.marks[t.i] === 1; }
 }
 
 class ReverseMapping {
-  private readonly bySubject = new Map<string, RdfTriple[]>();
-  private readonly used = new Set<RdfTriple>();
+  private readonly bySubject = new Map<string, Triple[]>();
+  private readonly used: UsedTriples;
+  /** Blank nodes typed as axiom generators (owl:AllDisjointClasses, owl:Axiom, …): their triples are not axioms themselves. */
+  private readonly generators = new Set<string>();
   private readonly axioms: AxiomInit[] = [];
   private readonly types = new Map<string, Set<string>>();
   private readonly literalValued = new Set<string>();
@@ -24,7 +39,8 @@ class ReverseMapping {
   private readonly visiting = new Set<string>();
   private readonly warnings: string[] = [];
 
-  constructor(private readonly triples: readonly RdfTriple[], private readonly source: string) {
+  constructor(private readonly triples: readonly Triple[], private readonly source: string) {
+    this.used = new UsedTriples(triples.length);
     for (const t of triples) {
       let list = this.bySubject.get(t.s);
       if (!list) this.bySubject.set(t.s, (list = []));
@@ -33,16 +49,17 @@ class ReverseMapping {
         let set = this.types.get(t.s);
         if (!set) this.types.set(t.s, (set = new Set()));
         set.add(t.o.key);
+        if (GENERATOR_TYPES.has(t.o.key) && t.s.startsWith('_:')) this.generators.add(t.s);
       }
       if (t.o.kind === 'literal' && !isReservedIri(t.p)) this.literalValued.add(t.p);
     }
   }
 
-  private pos(t: RdfTriple): Position {
+  private pos(t: Triple): Position {
     return { source: this.source, line: t.line, column: 0, triple: tripleText(t) };
   }
 
-  private fail(t: RdfTriple | undefined, message: string): never {
+  private fail(t: Triple | undefined, message: string): never {
     throw Object.assign(new RdfSyntaxError(t ? `${message} (triple ${tripleText(t)})` : message, t?.line ?? 0), { triple: t ? tripleText(t) : undefined });
   }
 
@@ -50,16 +67,22 @@ class ReverseMapping {
     return this.types.get(s)?.has(type) ?? false;
   }
 
-  private objects(s: string, p: string): RdfTriple[] {
-    return (this.bySubject.get(s) ?? []).filter((t) => t.p === p);
+  private objects(s: string, p: string): Triple[] {
+    const out: Triple[] = [];
+    for (const t of this.bySubject.get(s) ?? NONE) if (t.p === p) out.push(t);
+    return out;
   }
 
   /** The single object of (s, p) or undefined; marks the triple used. */
-  private one(s: string, p: string): RdfTriple | undefined {
-    const ts = this.objects(s, p);
-    if (ts.length > 1) this.fail(ts[1], `more than one ${short(p)} on ${s}`);
-    if (ts[0]) this.used.add(ts[0]);
-    return ts[0];
+  private one(s: string, p: string): Triple | undefined {
+    let found: Triple | undefined;
+    for (const t of this.bySubject.get(s) ?? NONE) {
+      if (t.p !== p) continue;
+      if (found) this.fail(t, `more than one ${short(p)} on ${s}`);
+      found = t;
+    }
+    if (found) this.used.add(found);
+    return found;
   }
 
   private markType(s: string, type: string): void {
@@ -67,7 +90,7 @@ class ReverseMapping {
   }
 
   /** Reads an RDF list (rdf:first / rdf:rest … rdf:nil), marking its triples used. */
-  private list(node: RdfTerm, at: RdfTriple): RdfTerm[] {
+  private list(node: RdfTerm, at: Triple): RdfTerm[] {
     const items: RdfTerm[] = [];
     const seen = new Set<string>();
     let cur = node;
@@ -100,7 +123,7 @@ class ReverseMapping {
   }
 
   /** ObjectPropertyExpression (Table 11): an IRI, or a blank node with owl:inverseOf. */
-  private property(node: RdfTerm, at: RdfTriple): PropertyRef {
+  private property(node: RdfTerm, at: Triple): PropertyRef {
     if (node.kind === 'iri') return { name: node.key, inverse: false };
     if (node.kind === 'blank') {
       const inv = this.one(node.key, o('inverseOf'));
@@ -109,12 +132,12 @@ class ReverseMapping {
     return this.fail(at, 'expected an object property (an IRI or a blank node with owl:inverseOf)');
   }
 
-  private literal(node: RdfTerm, at: RdfTriple): Literal {
+  private literal(node: RdfTerm, at: Triple): Literal {
     if (node.kind !== 'literal') this.fail(at, 'expected a literal');
     return node.literal;
   }
 
-  private count(node: RdfTerm, at: RdfTriple): number {
+  private count(node: RdfTerm, at: Triple): number {
     const l = this.literal(node, at);
     if (!/^\+?[0-9]+$/.test(l.lexical.trim())) this.fail(at, 'expected a non-negative integer');
     const n = Number(l.lexical.trim());
@@ -123,12 +146,12 @@ class ReverseMapping {
   }
 
   /** DataRange (Table 12). */
-  private dataRange(node: RdfTerm, at: RdfTriple): DataRange {
+  private dataRange(node: RdfTerm, at: Triple): DataRange {
     if (node.kind === 'iri') return { kind: 'datatype', name: node.key };
     if (node.kind !== 'blank') this.fail(at, 'expected a data range');
     const b = node.key;
     this.markType(b, RDFS + 'Datatype');
-    let t: RdfTriple | undefined;
+    let t: Triple | undefined;
     if ((t = this.one(b, o('intersectionOf')))) return { kind: 'dataAnd', operands: this.list(t.o, t).map((x) => this.dataRange(x, t!)) };
     if ((t = this.one(b, o('unionOf')))) return { kind: 'dataOr', operands: this.list(t.o, t).map((x) => this.dataRange(x, t!)) };
     if ((t = this.one(b, o('datatypeComplementOf')))) return { kind: 'dataNot', operand: this.dataRange(t.o, t) };
@@ -148,7 +171,7 @@ class ReverseMapping {
   }
 
   /** ClassExpression (Table 13), memoised per blank node; cycles are errors. */
-  private classExpression(node: RdfTerm, at: RdfTriple): ClassExpression {
+  private classExpression(node: RdfTerm, at: Triple): ClassExpression {
     if (node.kind === 'iri') return { kind: 'class', name: node.key };
     if (node.kind !== 'blank') this.fail(at, 'expected a class expression, found a literal');
     const cached = this.classCache.get(node.key);
@@ -163,8 +186,8 @@ class ReverseMapping {
     return c;
   }
 
-  private readClassExpression(b: string, at: RdfTriple): ClassExpression {
-    let t: RdfTriple | undefined;
+  private readClassExpression(b: string, at: Triple): ClassExpression {
+    let t: Triple | undefined;
     this.markType(b, o('Class'));
     if ((t = this.one(b, o('intersectionOf')))) return { kind: 'and', operands: this.list(t.o, t).map((x) => this.classExpression(x, t!)) };
     if ((t = this.one(b, o('unionOf')))) return { kind: 'or', operands: this.list(t.o, t).map((x) => this.classExpression(x, t!)) };
@@ -247,7 +270,7 @@ class ReverseMapping {
     }
     for (const t of this.triples) {
       if (this.used.has(t)) continue;
-      if (t.s.startsWith('_:') && [...(this.types.get(t.s) ?? [])].some((x) => GENERATOR_TYPES.has(x))) continue;
+      if (this.generators.has(t.s)) continue;
       if (t.s.startsWith('_:') && (STRUCTURAL.has(t.p) || (t.p === RDF_TYPE && (STRUCTURAL_TYPES.has(t.o.key) || GENERATOR_TYPES.has(t.o.key))))) continue;
       if (REIFICATION.has(t.p)) continue;
       this.axiomFrom(t);
@@ -265,14 +288,14 @@ class ReverseMapping {
     return { source: this.source, format, iri, versionIri, imports, annotations: ontologyAnnotations, axioms, prefixes, warnings: this.warnings };
   }
 
-  private push(t: RdfTriple, axiom: Record<string, unknown>): void {
+  private push(t: Triple, axiom: Record<string, unknown>): void {
     this.used.add(t);
-    const annotations = this.reified.get(`${t.s} ${t.p} ${t.o.key}`) ?? [];
+    const annotations = this.reified.size ? this.reified.get(`${t.s} ${t.p} ${t.o.key}`) ?? [] : [];
     this.axioms.push({ ...axiom, position: this.pos(t), annotations } as unknown as AxiomInit);
   }
 
   /** One axiom from one main triple (Tables 16–18). */
-  private axiomFrom(t: RdfTriple): void {
+  private axiomFrom(t: Triple): void {
     const s: RdfTerm = { kind: t.s.startsWith('_:') ? 'blank' : 'iri', key: t.s } as RdfTerm;
     const ce = (n: RdfTerm) => this.classExpression(n, t);
     switch (t.p) {
@@ -344,7 +367,7 @@ class ReverseMapping {
   }
 
   /** Axioms written as a typed blank node with members (Table 18: owl:AllDisjointClasses, owl:AllDifferent, …, owl:NegativePropertyAssertion). */
-  private generator(t: RdfTriple): void {
+  private generator(t: Triple): void {
     const b = t.s;
     this.used.add(t);
     const annotations = this.annotationsOn(b);
@@ -373,12 +396,12 @@ class ReverseMapping {
   }
 
   /** Exposed for `individual()`. */
-  failAt(t: RdfTriple, message: string): never {
+  failAt(t: Triple, message: string): never {
     return this.fail(t, message);
   }
 }
 
-function individual(node: RdfTerm, at: RdfTriple, m: ReverseMapping): string {
+function individual(node: RdfTerm, at: Triple, m: ReverseMapping): string {
   if (node.kind === 'literal') m.failAt(at, 'expected an individual, found a literal');
   return node.key;
 }
