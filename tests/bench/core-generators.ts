@@ -94,3 +94,31 @@ export function mixedNormalForm(n: number, seed = 3): NormalAxiom[] {
   }
   return out;
 }
+
+/**
+ * The catalogue's ABox: assemblies with `partsEach` parts each (hasPart), 30% of parts asserted metal and 10% polymer,
+ * and one supplier per `perSupplier` assemblies (suppliedBy), so components have perSupplier·(partsEach+1)+1 individuals.
+ */
+export function catalogueAbox(assemblies: number, partsEach = 3, perSupplier = 5, seed = 7): ChaseInput {
+  const onto = disjunctiveCatalogue(), rnd = random(seed);
+  const cp: number[] = [], ci: number[] = [], pp: number[] = [], ps: number[] = [], po: number[] = [];
+  let next = 0, supplier = -1;
+  for (let a = 0; a < assemblies; a++) {
+    const id = next++;
+    cp.push(0); ci.push(id);
+    if (a % perSupplier === 0) { supplier = next++; cp.push(6); ci.push(supplier); }
+    pp.push(1); ps.push(id); po.push(supplier);
+    for (let k = 0; k < partsEach; k++) {
+      const p = next++;
+      pp.push(0); ps.push(id); po.push(p);
+      cp.push(1); ci.push(p);
+      const x = rnd();
+      if (x < 0.3) { cp.push(2); ci.push(p); } else if (x < 0.4) { cp.push(3); ci.push(p); }
+    }
+  }
+  const none = new Int32Array(0);
+  return {
+    individuals: next, classPred: Int32Array.from(cp), classInd: Int32Array.from(ci), propPred: Int32Array.from(pp), propSubj: Int32Array.from(ps), propObj: Int32Array.from(po),
+    sameA: none, sameB: none, diffA: none, diffB: none, classNames: onto.classes, propertyNames: onto.properties,
+  };
+}

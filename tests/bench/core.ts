@@ -10,7 +10,7 @@ import { rewriteOntology } from '../../reasoner/rewrite/rules-from-normal.js';
 import { toAsp } from '../../reasoner/rules/asp.js';
 import { entail, type ChaseInput, type EntailedSink } from '../../reasoner/chase/entail.js';
 import { Guard } from '../../reasoner/chase/guard.js';
-import { disjunctiveCatalogue, hornDatalogOntology, mixedNormalForm, random, randomAbox } from './core-generators.js';
+import { catalogueAbox, disjunctiveCatalogue, hornDatalogOntology, mixedNormalForm, randomAbox } from './core-generators.js';
 
 const args = process.argv.slice(2);
 const part = args.includes('--part') ? Number(args[args.indexOf('--part') + 1]) : 0;
@@ -83,29 +83,8 @@ async function disjunctive10k(): Promise<void> {
   console.log('== (2) disjunctive catalogue with number restrictions, 10k individuals');
   const onto = disjunctiveCatalogue();
   const program = rewriteOntology({ axioms: onto.axioms, classes: onto.classes, properties: onto.properties, assertions: [] });
-  const rnd = random(7);
-  const assemblies = 2500, partsEach = 3, perSupplier = 5;
-  const cp: number[] = [], ci: number[] = [], pp: number[] = [], ps: number[] = [], po: number[] = [];
-  let next = 0;
-  const suppliers: number[] = [];
-  for (let a = 0; a < assemblies; a++) {
-    const id = next++;
-    cp.push(0); ci.push(id);
-    if (a % perSupplier === 0) { suppliers.push(next++); cp.push(6); ci.push(suppliers[suppliers.length - 1]!); }
-    pp.push(1); ps.push(id); po.push(suppliers[suppliers.length - 1]!);
-    for (let k = 0; k < partsEach; k++) {
-      const p = next++;
-      pp.push(0); ps.push(id); po.push(p);
-      cp.push(1); ci.push(p);
-      const x = rnd();
-      if (x < 0.3) { cp.push(2); ci.push(p); } else if (x < 0.4) { cp.push(3); ci.push(p); }
-    }
-  }
-  const none = new Int32Array(0);
-  const input: ChaseInput = {
-    individuals: next, classPred: Int32Array.from(cp), classInd: Int32Array.from(ci), propPred: Int32Array.from(pp), propSubj: Int32Array.from(ps), propObj: Int32Array.from(po),
-    sameA: none, sameB: none, diffA: none, diffB: none, classNames: onto.classes, propertyNames: onto.properties,
-  };
+  const input = catalogueAbox(2500, 3, 5, 7);
+  const next = input.individuals;
   const times: number[] = [];
   let stats, facts = 0;
   for (let r = 0; r < runs; r++) {
@@ -116,7 +95,7 @@ async function disjunctive10k(): Promise<void> {
     stats = outcome.stats; facts = sink.n;
     if (outcome.status !== 'ok') console.log('(inconsistent)');
   }
-  console.log(`individuals: ${next}; input facts: ${cp.length + pp.length}; entailed facts: ${facts}`);
+  console.log(`individuals: ${next}; input facts: ${input.classPred.length + input.propPred.length}; entailed facts: ${facts}`);
   console.log(`median ${median(times).toFixed(0)} ms over ${runs} runs (target < 60 000 ms); ${JSON.stringify(stats)}`);
 }
 
