@@ -1,5 +1,7 @@
 // Browser journey of a publisher: create a listing → upload an ontology and data → watch the progress → inspect the
 // facts → publish → see the public listing page and the catalogue. Real chromium, real app, real worker and reasoner.
+import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -142,5 +144,47 @@ describe('journey: publisher from upload to published listing', () => {
     await page.goto(app.url + '/catalogue');
     await eventually(() => page.locator('[data-test="catalogue"]').textContent()).toContain('Valley trails journey');
     await shot('catalogue');
+  }, 180_000);
+
+  it('shows why a version failed and offers approximate mode for axioms outside ALCHIQ', async () => {
+    const user = await createTestUser(app.ctx, { roles: ['publisher'] });
+    await browser?.close();
+    browser = await launchBrowser();
+    const page = browser.page;
+    const shot = journeyShots(page, 'publisher-outside-profile');
+    await signIn(page, user.email, user.password);
+    await page.goto(app.url + '/publisher/listings/new');
+    await page.locator('input[name="title"]').fill('River network journey');
+    await page.locator('input[name="slug"]').fill(`rivers-${Date.now().toString(36)}`);
+    await page.locator('input[name="summary"]').fill('Rivers and weirs, with a transitive property.');
+    await page.locator('input[name="licence"]').fill('CC0 1.0');
+    await page.locator('input[name="contact"]').fill('rivers@example.test');
+    await page.locator('[data-test="save-listing"]').click();
+    await page.waitForURL((url) => /^\/publisher\/listings\/[0-9a-f-]{36}$/.test(url.pathname));
+    // Transitivity is outside ALCHIQ (Baader et al. 2003, ch. 2 — from memory): strict mode refuses the ontology.
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'thence-journey-'));
+    const onto = path.join(dir, 'rivers.ofn');
+    fs.writeFileSync(onto, 'Prefix(:=<http://example.org/rivers#>)\nOntology(\n  TransitiveObjectProperty(:upstreamOf)\n  SubClassOf(:Weir :Structure)\n)\n');
+    const data = path.join(dir, 'weirs.nt');
+    fs.writeFileSync(data, '<http://example.org/rivers#w1> <http://www.w3.org/1999/02/22-rdf-syntax-ns#type> <http://example.org/rivers#Weir> .\n');
+    await page.locator('[data-test="ontology-input"] input[type="file"]').setInputFiles(onto);
+    await page.locator('[data-test="dataset-input"] input[type="file"]').setInputFiles(data);
+    await page.locator('[data-test="notice"]').click();
+    await page.locator('[data-test="upload-submit"]').click();
+    await page.waitForURL((url) => /^\/publisher\/versions\/[0-9a-f-]{36}$/.test(url.pathname), { timeout: 30_000 });
+    await eventually(() => page.locator('[data-test="version-status"]').textContent(), 60_000).toBe('Failed');
+    await eventually(() => page.locator('[data-test="version-error"]').textContent()).toContain('outside ALCHIQ');
+    await page.getByRole('tab', { name: 'Profile' }).click();
+    await eventually(() => page.locator('[data-test="profile-report"]').textContent()).toContain('TransitiveObjectProperty');
+    await shot('failed-outside-profile');
+    const first = page.url();
+    await page.locator('[data-test="rerun-approximate"]').click();
+    await page.waitForURL((url) => url.href !== first && /^\/publisher\/versions\/[0-9a-f-]{36}$/.test(url.pathname));
+    await eventually(() => page.locator('[data-test="version-status"]').textContent(), 60_000).toBe('Ready');
+    await expect(page.getByText('approximate', { exact: true }).count()).resolves.toBeGreaterThan(0);
+    await page.getByRole('tab', { name: 'Profile' }).click();
+    await eventually(() => page.locator('[data-test="profile-report"]').textContent()).toContain('Set aside');
+    await shot('approximate-ready');
+    fs.rmSync(dir, { recursive: true, force: true });
   }, 180_000);
 });
