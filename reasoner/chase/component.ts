@@ -170,14 +170,16 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   if (only) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { live: chase }; }
   const entailed: string[] = [];
   if (!plain) {
-    let open = candidates ?? [];
+    let open = candidates ?? [], reverse = true;
     while (open.length > 0) {
       const f = open.pop()!;
       let model: Set<string> | null = null;
+      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates.
       models += search(chase, guard, {
         violated: (c) => holdsKey(c, f),
         onModel: (c) => { model = keyOf(namedFacts(c)); return true; },
-      });
+      }, { reverse });
+      reverse = !reverse;
       if (model === null) entailed.push(f);
       else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
     }

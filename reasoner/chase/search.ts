@@ -22,6 +22,8 @@ export interface SearchHooks {
 export interface SearchOptions {
   /** Jump back over choice points a clash does not depend on (default true); false: chronological backtracking. */
   readonly backjump?: boolean;
+  /** Try the disjuncts of each choice last to first (a search then tends to find a model unlike the default one). */
+  readonly reverse?: boolean;
 }
 
 interface ChoicePoint {
@@ -71,7 +73,8 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     guard.branch();
     const rule = chase.loadInstance(chase.pending, top.instance)!;
     chase.level = stack.length;
-    return chase.applyDisjunct(rule, top.next, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
+    const d = options.reverse ? top.count - 1 - top.next : top.next;
+    return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
   };
   for (;;) {
     if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
