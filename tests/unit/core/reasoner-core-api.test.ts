@@ -77,8 +77,9 @@ describe('reason()', () => {
     expect(result.status).toBe('cancelled');
   });
 
+  // A disjunctive ontology is always chased with anonymous elements (a Horn one may need none).
   it('returns resourceLimit with a message when the element guard is reached', async () => {
-    const result = await reason({ ontology: { path: fixture('functional.ofn') }, datasets: [], limits: { maxElements: 3 } }, new Collect());
+    const result = await reason({ ontology: { path: fixture('cases-guard.ofn') }, datasets: [], limits: { maxElements: 2 } }, new Collect());
     expect(result.status).toBe('resourceLimit');
     if (result.status === 'resourceLimit') expect(result.message).toMatch(/element limit/);
   });
