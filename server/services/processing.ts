@@ -57,6 +57,14 @@ function countsFrom(stats: LoadStats): StoredCounts {
   return { facts: stats.facts, asserted: stats.asserted, terms: stats.terms, perClass: stats.perClass, perProperty: stats.perProperty };
 }
 
+/** Replaces every stored path in the strings of a JSON-like value by the file's original name. */
+export function renameFiles<T>(value: T, pairs: [string, string][]): T {
+  if (typeof value === 'string') return pairs.reduce((text, [from, to]) => text.split(from).join(to), value as string) as T;
+  if (Array.isArray(value)) return value.map((v) => renameFiles(v, pairs)) as T;
+  if (value && typeof value === 'object') return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, renameFiles(v, pairs)])) as T;
+  return value;
+}
+
 /** Processes one version end to end. Throws (so the queue retries) only on unexpected errors of a non-final attempt. */
 export async function processVersion(ctx: AppContext, versionId: string, options: ProcessOptions): Promise<ProcessOutcome> {
   const claimed = await claim(ctx, versionId);
@@ -83,6 +91,9 @@ export async function processVersion(ctx: AppContext, versionId: string, options
     return 'failed';
   }
 
+  // The reasoner names positions by the stored path (<uploadDir>/<listing>/<version>/00-ontology-….ofn:3:3); the publisher
+  // knows the file by its own name, and the server's folders are nobody else's business.
+  const names = <T>(value: T): T => renameFiles(value, files.map((f) => [f.storedPath, f.originalName]));
   const controller = new AbortController();
   const onShutdown = () => controller.abort('shutdown');
   options.shutdown?.addEventListener('abort', onShutdown, { once: true });
@@ -130,7 +141,7 @@ export async function processVersion(ctx: AppContext, versionId: string, options
         return 'cancelled';
       }
       if (result.status === 'inconsistent') {
-        await finishWith(ctx, versionId, 'inconsistent', { profile: result.profile, rewriting: result.rewriting, program: result.program, explanation: result.explanation, diagnostics: result.diagnostics, error: 'The knowledge base is inconsistent: no model satisfies the ontology and the data together.' });
+        await finishWith(ctx, versionId, 'inconsistent', { stage, profile: names(result.profile), rewriting: result.rewriting, program: names(result.program), explanation: names(result.explanation), diagnostics: names(result.diagnostics), error: 'The knowledge base is inconsistent: no model satisfies the ontology and the data together.' });
         await appendLog(ctx.pool, versionId, `Inconsistent: ${result.explanation.facts.length} fact(s) and ${result.explanation.axioms.length} axiom(s) clash.`, 'error');
         await notifyVersionFinished(ctx, versionId);
         return 'inconsistent';
@@ -139,7 +150,7 @@ export async function processVersion(ctx: AppContext, versionId: string, options
         result.status === 'inputError' ? `The input could not be read: ${result.diagnostics.filter((d) => d.severity === 'error').length} error(s).`
         : result.status === 'outsideProfile' ? `${result.profile.counts.outside} axiom(s) fall outside ALCHIQ; fix them or run again in approximate mode.`
         : result.message;
-      await finishWith(ctx, versionId, 'failed', { error, diagnostics: 'diagnostics' in result ? result.diagnostics : [], profile: 'profile' in result ? result.profile : null });
+      await finishWith(ctx, versionId, 'failed', { stage, error, diagnostics: names('diagnostics' in result ? result.diagnostics : []), profile: names('profile' in result ? result.profile : null) });
       await appendLog(ctx.pool, versionId, `Failed: ${error}`, 'error');
       await notifyVersionFinished(ctx, versionId);
       return 'failed';
@@ -159,7 +170,7 @@ export async function processVersion(ctx: AppContext, versionId: string, options
       const { rowCount } = await client.query(
         `UPDATE kb_versions SET status = 'ready', stage = 'store', progress = 1, finished_at = now(), heartbeat_at = NULL, profile = $2, rewriting = $3, program = $4,
                 counts = $5, diagnostics = $6, timings = $7, fact_count = $8 WHERE id = $1 AND status = 'processing' AND attempts = $9 AND NOT cancel_requested`,
-        [versionId, JSON.stringify(result.profile), JSON.stringify(result.rewriting), result.program, JSON.stringify(countsFrom(stats)), JSON.stringify(result.diagnostics), JSON.stringify(timings), stats.facts, attempts],
+        [versionId, JSON.stringify(names(result.profile)), JSON.stringify(result.rewriting), names(result.program), JSON.stringify(countsFrom(stats)), JSON.stringify(names(result.diagnostics)), JSON.stringify(timings), stats.facts, attempts],
       );
       if (!rowCount) throw new Error('the version was cancelled or taken over by another attempt before it was stored');
     });

@@ -185,7 +185,9 @@ describe('processing and publishing', () => {
     expect((await waitForMail(alice.user.email, /Processing broken: version 1 failed/)).text).toContain('could not be made ready');
     const detail = (await alice.get(`/api/publisher/versions/${res.body.version.id}`)).body.version;
     const error = detail.diagnostics.find((d: { severity: string }) => d.severity === 'error');
-    expect(error.position).toMatch(/:\d+(:\d+)?$/);
+    // Positions name the file as the publisher uploaded it, never the server's storage path.
+    expect(error.position).toMatch(/^broken\.ofn:\d+(:\d+)?$/);
+    expect(JSON.stringify(detail)).not.toContain(t.ctx.config.uploadDir);
     expect(error.message.length).toBeGreaterThan(5);
   });
 
@@ -199,6 +201,8 @@ describe('processing and publishing', () => {
     expect(done.status).toBe('failed');
     const detail = (await alice.get(`/api/publisher/versions/${res.body.version.id}`)).body.version;
     expect(detail.profile.counts.outside).toBe(1);
+    expect(detail.stage).toBe('profile');
+    expect(detail.profile.entries.find((e: { classification: string }) => e.classification === 'outside').position).toMatch(/^o\.ofn:3:\d+$/);
     const rerun = await alice.post(`/api/publisher/versions/${res.body.version.id}/rerun`).send({ mode: 'approximate' });
     expect(rerun.status).toBe(201);
     expect(rerun.body.version.number).toBe(2);
