@@ -167,7 +167,7 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
 
   // Workers also when there is one thread but a signal: a worker can be terminated mid-component, this thread cannot.
   const threads = Math.max(1, Math.min(options.threads ?? 1, rest.length));
-  if ((threads > 1 || options.signal !== undefined) && restSize >= (options.minFactsForThreads ?? 20_000)) {
+  if ((threads > 1 || options.signal !== undefined) && restSize >= (options.minFactsForThreads ?? 200_000)) {
     stats.threads = threads;
     const outcome = await runInWorkers(full, rest.map(task), threads, { limits: options.limits, path: options.path, signal: options.signal }, (i, result) => {
       const local = members[rest[i]!]!;
