@@ -5,6 +5,7 @@ import supertest from 'supertest';
 import { createTestApp, type TestApp } from '../support/app.js';
 import { publishedListing, subscriberWithKey, type TestListing } from '../support/market.js';
 import { meterFor, stopMeter, latencyBucket } from '../../server/services/metering.js';
+import { leaseSize } from '../../server/services/rateLimit.js';
 import { listMail, waitForMail } from '../support/mail.js';
 
 const RDF_TYPE = 'http://www.w3.org/1999/02/22-rdf-syntax-ns#type';
@@ -59,6 +60,27 @@ describe('rate limit per key per plan', () => {
     await meterFor(a.ctx).flush();
     await meterFor(b.ctx).flush();
     expect(await counted(k.key.id)).toEqual({ 2: 4, 4: 2 });
+  });
+});
+
+describe('rate-limit leases (larger limits reserve hit numbers in batches)', () => {
+  it('never admits more than the limit across two instances, and refuses at most (P − 1)(lease − 1) early', async () => {
+    expect(leaseSize(4)).toBe(1);
+    expect(leaseSize(300)).toBe(3);
+    expect(leaseSize(1_000_000)).toBe(500);
+    const k = await subscriberWithKey(a.ctx, listing, { ratePerMinute: 300, monthlyQuota: 1_000_000 });
+    const statuses: number[] = [];
+    for (let round = 0; round < 40; round++) {
+      // Eight at a time, spread over both instances: concurrent claims within one process share one lease.
+      const batch = await Promise.all(Array.from({ length: 8 }, (_, i) => facts(i % 2 ? a : b, k.auth)));
+      statuses.push(...batch.map((r) => r.status));
+    }
+    const admitted = statuses.filter((s) => s === 200).length;
+    expect(statuses.filter((s) => s !== 200 && s !== 429)).toEqual([]);
+    expect(admitted).toBeLessThanOrEqual(300);
+    expect(admitted).toBeGreaterThanOrEqual(300 - (2 - 1) * (3 - 1));
+    const bucket = (await a.ctx.pool.query(`SELECT hits FROM rate_limit_buckets WHERE key = $1`, [`v1:${k.key.id}`])).rows[0];
+    expect(bucket.hits).toBeGreaterThanOrEqual(320);
   });
 });
 
