@@ -213,6 +213,18 @@ describe('GET /api/v1/openapi.json', () => {
     expect(Object.keys(res.body.paths)).toEqual(expect.arrayContaining(['/kbs/{slug}/facts', '/kbs/{slug}/sparql']));
     expect(res.body.components.securitySchemes.apiKey).toEqual(expect.objectContaining({ type: 'http', scheme: 'bearer' }));
     for (const status of ['400', '401', '403', '404', '429']) expect(res.body.paths['/kbs/{slug}/facts'].get.responses).toHaveProperty(status);
+    // Every local $ref resolves (OpenAPI 3.1 §4.8.23, Reference Object — from memory).
+    const refs: string[] = [];
+    const walk = (node: unknown): void => {
+      if (Array.isArray(node)) node.forEach(walk);
+      else if (node && typeof node === 'object') for (const [k, v] of Object.entries(node)) k === '$ref' ? refs.push(v as string) : walk(v);
+    };
+    walk(res.body);
+    expect(refs.length).toBeGreaterThan(5);
+    for (const ref of refs) {
+      const target = ref.replace(/^#\//, '').split('/').reduce<unknown>((at, part) => (at as Record<string, unknown> | undefined)?.[part], res.body);
+      expect(target, ref).toBeDefined();
+    }
   });
   it('answers CORS preflights so browser applications on other sites can call with a Bearer key', async () => {
     const pre = await supertest(t.app).options(`/api/v1/kbs/${listing.slug}/sparql`).set('Origin', 'https://app.example.test').set('Access-Control-Request-Method', 'POST').set('Access-Control-Request-Headers', 'authorization, content-type').expect(204);
