@@ -21,6 +21,7 @@ export interface Clash {
 export interface ChaseMark {
   readonly store: StoreMark;
   readonly triggers: number;
+  readonly triggerCursor: number;
   readonly pending: number;
   readonly pendingCursor: number;
 }
@@ -51,6 +52,8 @@ export class Chase {
   readonly pending = new InstanceList();
   /** Every pending disjunction before this index holds in the current branch. */
   pendingCursor = 0;
+  /** Every trigger before this index holds (or lost its elements) in the current branch: satisfaction is kept. */
+  triggerCursor = 0;
   private readonly env: Int32Array;
   private readonly out: number[] = [];
   /** Dependency set of the row matched at each join step. */
@@ -67,12 +70,12 @@ export class Chase {
   }
 
   mark(): ChaseMark {
-    return { store: this.store.mark(), triggers: this.triggers.length, pending: this.pending.length, pendingCursor: this.pendingCursor };
+    return { store: this.store.mark(), triggers: this.triggers.length, triggerCursor: this.triggerCursor, pending: this.pending.length, pendingCursor: this.pendingCursor };
   }
 
   undo(m: ChaseMark): void {
     this.store.undo(m.store);
-    this.triggers.truncate(m.triggers); this.pending.truncate(m.pending); this.pendingCursor = m.pendingCursor;
+    this.triggers.truncate(m.triggers); this.pending.truncate(m.pending); this.pendingCursor = m.pendingCursor; this.triggerCursor = m.triggerCursor;
     this.deltaUnary = Math.min(this.deltaUnary, this.store.unaryCount);
     this.deltaBinary = Math.min(this.deltaBinary, this.store.binaryCount);
     this.clash = null;
@@ -380,7 +383,11 @@ export class Chase {
     if (list.length === 0) return 0;
     // Blocking is computed only when some trigger is still open (it costs a pass over all elements).
     const open: number[] = [];
-    for (let i = 0; i < list.length; i++) { const rule = this.loadInstance(list, i); if (rule !== null && !this.holds(rule)) open.push(i); }
+    for (let i = this.triggerCursor; i < list.length; i++) {
+      const rule = this.loadInstance(list, i);
+      if (rule !== null && !this.holds(rule)) open.push(i);
+      else if (open.length === 0) this.triggerCursor = i + 1;
+    }
     if (open.length === 0) return 0;
     const status = this.blocked();
     let applied = 0;
