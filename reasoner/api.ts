@@ -87,6 +87,11 @@ export interface ReasonOptions {
   readonly limits?: ResourceLimits;
   /** Worker threads for independent components; default: available parallelism. */
   readonly threads?: number;
+  /**
+   * How a Horn ontology is evaluated: 'datalog' (default) runs its Datalog rewriting (rewrite/horn, no anonymous
+   * element); 'chase' runs the one-rule-per-axiom program with anonymous elements. Disjunctive ontologies always chase.
+   */
+  readonly path?: 'datalog' | 'chase';
 }
 
 export interface Explanation {

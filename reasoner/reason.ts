@@ -8,6 +8,7 @@ import { Abox } from './model/abox.js';
 import { isFreshName, type NormalOntology } from './model/normal.js';
 import { OWL_BOTTOM_OBJECT_PROPERTY, OWL_NOTHING, OWL_SAME_AS, OWL_THING, OWL_TOP_OBJECT_PROPERTY, RDF_TYPE } from './model/vocabulary.js';
 import { rewriteOntology, rewritingStats } from './rewrite/rules-from-normal.js';
+import { hornProgramWithinLimits } from './rewrite/horn/index.js';
 import { printRule } from './rules/print.js';
 import type { Rule, RuleProgram } from './rules/types.js';
 import { entail, type ClashReport } from './chase/entail.js';
@@ -56,7 +57,9 @@ export async function reason(options: ReasonOptions, sink: FactSink): Promise<Re
     abox.trim();
 
     enter('rewrite');
-    const program = rewriteOntology(normal);
+    const perAxiom = rewriteOntology(normal);
+    // Horn: the Datalog rewriting (README, "Horn path"), unless asked for the chase or over the saturation's limits.
+    const program = perAxiom.horn && options.path !== 'chase' ? hornProgramWithinLimits(normal)?.program ?? perAxiom : perAxiom;
     const stats = rewritingStats(program, normal.axioms.length);
     const programText = program.rules.map((r) => printRule(r)).join('\n');
     const axiomText = new Map(report.entries.map((e) => [e.axiomId, { position: e.position, text: e.text }]));

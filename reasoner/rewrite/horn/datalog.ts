@@ -73,18 +73,17 @@ export function hornDatalog(normal: NormalOntology, limits: SaturationLimits = {
     stats.contexts = saturator.contexts; stats.contextRules = 1;
     return done();
   }
-  // What holds everywhere is derived from ⊤ once.
-  for (const c of everywhere) rules.push({ body: [cls(TOP, 'x')], head: [{ exists: [], atoms: [cls(c, 'x')] }], source: generating[0]!.axiom.source });
-  stats.contextRules += everywhere.size;
 
   const roles = new RoleHierarchy(normal.axioms);
   const atMostOne = normal.axioms.filter((a) => a.kind === 'atMost' && a.n === 1);
-  const seenRule = new Set<string>();
+  const seenRule = new Set<string>(rules.map((r) => JSON.stringify([r.body, r.head])));
   const emit = (rule: Rule, kind: 'contextRules' | 'identificationRules') => {
     const key = JSON.stringify([rule.body, rule.head]);
     if (seenRule.has(key)) return;
     seenRule.add(key); rules.push(rule); stats[kind]++;
   };
+  // What holds everywhere is derived from ⊤ once.
+  for (const c of everywhere) emit({ body: [cls(TOP, 'x')], head: [{ exists: [], atoms: [cls(c, 'x')] }], source: generating[0]!.axiom.source }, 'contextRules');
   for (const g of generating) {
     const face: GeneratingInterface = interfaceOf(g, generating, normal.axioms, roles, everywhere);
     const n = face.classes.length;
@@ -117,7 +116,9 @@ export function hornDatalog(normal: NormalOntology, limits: SaturationLimits = {
         if (identifications.covered(key, mask)) continue;
         identifications.add(key, mask);
         const idBody = [...body, roleAtom(s, 'x', 'z'), ...(a.filler === null ? [] : [cls(a.filler, 'z')])];
-        const head = [...[...y.edge].sort().map((r) => roleAtom(r, 'x', 'z')), ...[...y.label].sort().map((c) => cls(c, 'z'))];
+        const given = new Set(idBody.map((b) => JSON.stringify(b)));
+        const head = [...[...y.edge].sort().map((r) => roleAtom(r, 'x', 'z')), ...[...y.label].sort().map((c) => cls(c, 'z'))].filter((h) => !given.has(JSON.stringify(h)));
+        if (head.length === 0) continue;
         emit({ body: idBody, head: [{ exists: [], atoms: head }], source: a.source }, 'identificationRules');
       }
     }

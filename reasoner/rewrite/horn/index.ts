@@ -2,8 +2,8 @@
 
 import type { NormalOntology } from '../../model/normal.js';
 import type { RuleProgram } from '../../rules/types.js';
-import { hornDatalog } from './datalog.js';
-import type { SaturationLimits } from './saturation.js';
+import { hornDatalog, type HornRewritingStats } from './datalog.js';
+import { HornSaturationLimitError, type SaturationLimits } from './saturation.js';
 
 export { hornDatalog, type HornRewritingStats } from './datalog.js';
 export { HornSaturationLimitError, type SaturationLimits } from './saturation.js';
@@ -15,4 +15,17 @@ export { HornSaturationLimitError, type SaturationLimits } from './saturation.js
  */
 export function rewriteHornToDatalog(normal: NormalOntology, limits?: SaturationLimits): RuleProgram {
   return hornDatalog(normal, limits).program;
+}
+
+/**
+ * The program reason() runs for a normal form: the Datalog rewriting when the normal form is Horn and the saturation
+ * stays within its limits, else null (the caller keeps the one-rule-per-axiom program and the chase).
+ */
+export function hornProgramWithinLimits(normal: NormalOntology, limits?: SaturationLimits): { program: RuleProgram; stats: HornRewritingStats } | null {
+  try {
+    return hornDatalog(normal, limits);
+  } catch (error) {
+    if (error instanceof HornSaturationLimitError) return null;
+    throw error;
+  }
 }

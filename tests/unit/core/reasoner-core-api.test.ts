@@ -113,10 +113,19 @@ describe('command line', () => {
   }, 30_000);
 
   it('rewrite prints rules in logical notation and statistics', async () => {
-    const r = await cli(['rewrite', '--ontology', fixture('functional.ofn')]);
+    const r = await cli(['rewrite', '--ontology', fixture('functional.ofn'), '--path', 'chase']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/→ ∃y\. \(livesWith\(x, y\) ∧ Person\(y\)\)/);
     expect(r.stdout).toMatch(/→ y1 ≈ y2/);
     expect(r.stdout).toMatch(/rules from \d+ normal-form axioms/);
+  }, 30_000);
+
+  it('rewrite prints the Datalog program of a Horn ontology by default: no ∃, with its statistics', async () => {
+    const r = await cli(['rewrite', '--ontology', fixture('functional.ofn')]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).not.toMatch(/∃/);
+    expect(r.stdout).toMatch(/→ y1 ≈ y2/);
+    expect(r.stdout).toMatch(/existential: 0/);
+    expect(r.stdout).toMatch(/Horn path: Datalog over named individuals/);
   }, 30_000);
 });
