@@ -2,7 +2,7 @@
 # `npm test`: the whole suite (unit, API, browser journeys) against its own database; ends with "N passed, N failed".
 set -uo pipefail
 source "$(dirname "$0")/env.sh"
-source "$(dirname "$0")/fakes-env.sh" 97
+source "$(dirname "$0")/fakes-env.sh" "${THENCE_PORT_BLOCK:-97}"
 
 # Background processes run tsx directly, not through npx: `npm exec` wraps the command in a shell that does not
 # pass SIGTERM on, so stopping the npx pid would leave the server itself running.
