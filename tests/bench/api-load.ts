@@ -118,8 +118,9 @@ const publisher = await createTestUser(ctx, { roles: ['publisher'] });
 const listing = await publishedListing(ctx, benchFacts(), { publisher, title: 'Benchmark registry' });
 const k = await subscriberWithKey(ctx, listing, { ratePerMinute: 1_000_000, monthlyQuota: 1_000_000_000 });
 const port = await freePort();
-// WORKERS server processes on one port (default 2, one per core of the reference machine); 1 gives a single process.
-const WORKERS = Number(process.env.WORKERS ?? 2);
+// WORKERS server processes on one port (default 1: on the 2-core reference machine, where PostgreSQL and the load
+// generator need the cores too, a second web process measured slower — 745 vs 1020 lookups/s on 2026-12-02).
+const WORKERS = Number(process.env.WORKERS ?? 1);
 const server = spawn(process.execPath, ['--import', 'tsx', 'tests/bench/serve-cluster.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production', WORKERS: String(WORKERS) }, stdio: ['ignore', 'ignore', 'inherit'] });
 const exited = new Promise<number | null>((resolve) => server.on('exit', resolve));
 const url = `http://127.0.0.1:${port}`;
