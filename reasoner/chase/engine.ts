@@ -4,7 +4,7 @@
 
 import { BINARY, EQUAL, UNARY, type CompiledAtom, type CompiledProgram, type CompiledRule, type JoinStep } from './program.js';
 import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
-import { mix2 } from './hash.js';
+import { blockedElements } from './blocking.js';
 import type { Guard } from './guard.js';
 import { DependencySets } from './dependencies.js';
 
@@ -326,55 +326,6 @@ export class Chase {
   }
 
   /**
-   * Pairwise anywhere blocking (Motik et al. 2009, Def. 4.2, as we read it): an anonymous element y whose parent y′ is
-   * anonymous is directly blocked by an older, not blocked z with parent z′ when L(y) = L(z), L(y′) = L(z′) and the
-   * edge labels y′→y, y→y′ equal z′→z, z→z′; descendants of a blocked element are indirectly blocked.
-   * Returns a byte per element (1 = blocked).
-   */
-  blocked(): Uint8Array {
-    const st = this.store, status = new Uint8Array(st.elementCount), seen = new Map<number, number>();
-    for (let y = st.named; y < st.elementCount; y++) {
-      if (st.rep[y] !== y) continue;
-      const p = st.parent[y]!;
-      if (p < st.named) continue;
-      if (status[p]) { status[y] = 1; continue; }
-      const key = mix2(mix2(mix2(st.labelHashA[y]!, st.labelHashB[y]!), mix2(st.labelHashA[p]!, st.labelHashB[p]!)), this.edgeHash(p, y));
-      const z = seen.get(key);
-      if (z !== undefined && this.sameLabel(y, z) && this.sameLabel(p, st.parent[z]!) && this.sameEdges(p, y, st.parent[z]!, z)) status[y] = 1;
-      else if (z === undefined) seen.set(key, y);
-    }
-    return status;
-  }
-
-  private edgeHash(p: number, y: number): number {
-    const st = this.store;
-    let h = 0;
-    for (let r = st.firstBinaryWithSubject(y); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === p && st.binaryValid(r)) h = (h + mix2(st.binaryPred[r]!, 1)) | 0;
-    for (let r = st.firstBinaryWithObject(y); r >= 0; r = st.nextBinaryWithObject(r)) if (st.binarySubj[r] === p && st.binaryValid(r)) h = (h + mix2(st.binaryPred[r]!, 2)) | 0;
-    return h;
-  }
-
-  private sameLabel(y: number, z: number): boolean {
-    const st = this.store;
-    if (st.labelSize[y] !== st.labelSize[z]) return false;
-    for (let r = st.firstUnaryAbout(y); r >= 0; r = st.nextUnaryByElem(r)) if (!st.hasUnary(st.unaryPred[r]!, z)) return false;
-    return true;
-  }
-
-  private sameEdges(p: number, y: number, q: number, z: number): boolean {
-    const st = this.store;
-    const count = (a: number, b: number) => {
-      let n = 0;
-      for (let r = st.firstBinaryWithSubject(a); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === b && st.binaryValid(r)) n++;
-      return n;
-    };
-    if (count(y, p) !== count(z, q) || count(p, y) !== count(q, z)) return false;
-    for (let r = st.firstBinaryWithSubject(y); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === p && !st.hasBinary(st.binaryPred[r]!, z, q)) return false;
-    for (let r = st.firstBinaryWithSubject(p); r >= 0; r = st.nextBinaryWithSubject(r)) if (st.binaryObj[r] === y && !st.hasBinary(st.binaryPred[r]!, q, z)) return false;
-    return true;
-  }
-
-  /**
    * One round of the restricted chase for existential rules: every recorded trigger whose centre is not blocked and
    * whose head does not hold yet gets new elements. Returns the number of triggers applied.
    */
@@ -389,7 +340,7 @@ export class Chase {
       else if (open.length === 0) this.triggerCursor = i + 1;
     }
     if (open.length === 0) return 0;
-    const status = this.blocked();
+    const status = blockedElements(this.store);
     let applied = 0;
     for (const i of open) {
       const rule = this.loadInstance(list, i);
