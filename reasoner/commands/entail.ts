@@ -47,6 +47,7 @@ export async function run(args: string[]): Promise<number> {
       return 0;
     case 'inputError':
       for (const d of result.diagnostics) err(`${d.position}: ${d.severity}: ${d.message}`);
+      if (!csv && datasets.some((d) => d.path.endsWith('.csv'))) err('entail: CSV datasets are read with --mapping FILE.json (subjectColumn, base, columns: see CsvMapping in reasoner/api.ts)');
       return 2;
     case 'outsideProfile':
       for (const e of result.profile.entries) if (e.classification === 'outside') err(`${e.position}: outside ALCHIQ (${e.reasons.join(', ')}): ${e.text}`);
