@@ -85,6 +85,10 @@ function patternQuery(storeKey: number, pattern: FactPattern, from: 'rows' | 'co
 /**
  * Facts matching an atomic pattern, in a stable order, one page at a time (keyset pagination on the index that serves the pattern).
  * One SQL statement per call. A version whose tables do not exist (not ready, deleted) gives no facts.
+ *
+ * Hot path of /api/v1: the statement is named, so each pooled connection parses and plans it once per (version, shape)
+ * and then only binds and executes; and only the unbound positions join the term dictionary — a bound position's term
+ * is the one given (the match is by equality on the stored term), so a lookup with all three bound reads no term rows.
  */
 export async function lookupFacts(
   pool: pg.Pool | pg.PoolClient,
@@ -104,17 +108,11 @@ export async function lookupFacts(
     q.where.push(`(f.${cols[0]}, f.${cols[1]}, f.${cols[2]}) > ($${n - 2}::int, $${n - 1}::int, $${n}::int)`);
   }
   q.params.push(limit + 1);
-  const sql = `SELECT ts.term AS subject, tp.term AS predicate, tob.term AS object, f.asserted, f.s, f.p, f.o
-    FROM ${q.facts} f
-    JOIN ${q.terms} ts ON ts.id = f.s
-    JOIN ${q.terms} tp ON tp.id = f.p
-    JOIN ${q.terms} tob ON tob.id = f.o
-    ${q.where.length ? 'WHERE ' + q.where.join(' AND ') : ''}
-    ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]}
-    LIMIT $${q.params.length}`;
-  let rows: { subject: string; predicate: string; object: string; asserted: boolean; s: number; p: number; o: number }[];
+  const shape = `${pattern.subject === undefined ? '-' : 's'}${pattern.predicate === undefined ? '-' : 'p'}${pattern.object === undefined ? '-' : 'o'}${page.cursor ? 'c' : ''}`;
+  const text = lookupSql(storeKey, pattern, q.where, cols, q.params.length);
+  let rows: { subject?: string; predicate?: string; object?: string; asserted: boolean; s: number; p: number; o: number }[];
   try {
-    rows = (await pool.query(sql, q.params)).rows;
+    rows = (await pool.query({ name: `thence-facts-${storeKey}-${shape}`, text, values: q.params })).rows;
   } catch (error) {
     if ((error as { code?: string }).code === '42P01') return { facts: [], nextCursor: null };
     throw error;
@@ -122,10 +120,33 @@ export async function lookupFacts(
   const more = rows.length > limit;
   if (more) rows.length = limit;
   const last = rows[rows.length - 1];
-  return {
-    facts: rows.map((r) => ({ subject: r.subject, predicate: r.predicate, object: r.object, asserted: r.asserted })),
-    nextCursor: more && last ? encodeCursor(order, last) : null,
+  const facts: StoredFact[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i];
+    facts[i] = { subject: pattern.subject ?? r.subject!, predicate: pattern.predicate ?? r.predicate!, object: pattern.object ?? r.object!, asserted: r.asserted };
+  }
+  return { facts, nextCursor: more && last ? encodeCursor(order, last) : null };
+}
+
+/** The lookup SQL for one shape of pattern: the term dictionary is joined only for the positions left unbound. */
+function lookupSql(storeKey: number, pattern: FactPattern, where: string[], cols: readonly Position[], limitParam: number): string {
+  const terms = termsTable(storeKey);
+  const select = ['f.asserted', 'f.s', 'f.p', 'f.o'];
+  const joins: string[] = [];
+  const open = (col: Position, name: 'subject' | 'predicate' | 'object', alias: string) => {
+    if (pattern[name] !== undefined) return;
+    select.push(`${alias}.term AS ${name}`);
+    joins.push(`JOIN ${terms} ${alias} ON ${alias}.id = f.${col}`);
   };
+  open('s', 'subject', 'ts');
+  open('p', 'predicate', 'tp');
+  open('o', 'object', 'tob');
+  return `SELECT ${select.join(', ')}
+    FROM ${factsTable(storeKey)} f
+    ${joins.join('\n    ')}
+    ${where.length ? 'WHERE ' + where.join(' AND ') : ''}
+    ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]}
+    LIMIT $${limitParam}`;
 }
 
 /** Number of facts matching a pattern (an index-only count; cheap for bound patterns, a full index scan when nothing is bound). */
