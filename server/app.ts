@@ -10,13 +10,14 @@ import type { AppContext } from './context.js';
 import { setupPassport } from './auth/passport.js';
 import { createCsrf } from './http/csrf.js';
 import { errorHandler, HttpError, notFoundHandler } from './http/errors.js';
-import { mountEarlyRoutes, mountRoutes } from './routes/index.js';
+import { mountEarlyRoutes, mountQueryApi, mountRoutes } from './routes/index.js';
 import { methodNotAllowed } from './http/methods.js';
 
 export function createApp(ctx: AppContext): express.Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  mountQueryApi(app, ctx);
   app.use(
     helmet({
       contentSecurityPolicy: {
