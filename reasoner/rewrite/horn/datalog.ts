@@ -92,10 +92,21 @@ export function hornDatalog(normal: NormalOntology, limits: SaturationLimits = {
     const base = everywhere.has(g.sub) ? [...everywhere] : [...everywhere, g.sub];
     const classFacts = new MinimalMasks(), identifications = new MinimalMasks();
     let unsatisfiable: number[] = [];
+    const models = new Map<number, LocalModel>();
     for (const mask of masksBySize(n)) {
       if (unsatisfiable.some((m) => (m & ~mask) === 0)) continue;
+      // K ∪ {c} with c already implied by K has K's local model, and every rule it would give is one of K's (K is a
+      // subset): only contexts closed within the interface are saturated.
+      let implied: LocalModel | undefined;
+      for (let i = 0; i < n && !implied; i++) {
+        if (!(mask & (1 << i))) continue;
+        const smaller = models.get(mask ^ (1 << i));
+        if (smaller?.consistent && smaller.classes.has(face.classes[i]!)) implied = smaller;
+      }
+      if (implied) { models.set(mask, implied); continue; }
       const chosen = face.classes.filter((_, i) => mask & (1 << i));
       const model: LocalModel = saturator.saturate([...base, ...chosen]);
+      models.set(mask, model);
       const bodyClasses = everywhere.has(g.sub) ? chosen : [g.sub, ...chosen];
       const body = bodyClasses.length === 0 ? [cls(TOP, 'x')] : bodyClasses.map((c) => cls(c, 'x'));
       const source = g.axiom.source;
