@@ -64,6 +64,13 @@ export class Meter {
     this.quotas.set(subject.subscriptionId, subject.monthlyQuota);
   }
 
+  /** What usedThisMonth would answer when it needs no read (the total read within QUOTA_REFRESH_MS this month), else null. */
+  usedThisMonthIfFresh(subscriptionId: string): number | null {
+    const base = this.base.get(subscriptionId);
+    if (!base || base.month !== monthStart().getTime() || Date.now() - base.at > QUOTA_REFRESH_MS) return null;
+    return base.used + (this.inflightOk.get(subscriptionId) ?? 0) + (this.pendingOk.get(subscriptionId) ?? 0);
+  }
+
   /** 2xx answers of the subscription this calendar month, across all processes (as of the last read) plus this one's unflushed. */
   async usedThisMonth(subscriptionId: string): Promise<number> {
     const month = monthStart().getTime();
