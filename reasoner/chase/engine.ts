@@ -340,7 +340,10 @@ export class Chase {
       else if (open.length === 0) this.triggerCursor = i + 1;
     }
     if (open.length === 0) return 0;
-    const status = blockedElements(this.store);
+    // A self-terminating program (blocking off): the plain restricted chase applies one trigger, then the rules run
+    // again, so that copies of the new successor can satisfy the other open triggers before they fire.
+    const plain = !this.program.blocking;
+    const status = plain ? new Uint8Array(0) : blockedElements(this.store);
     let applied = 0;
     for (const i of open) {
       const rule = this.loadInstance(list, i);
@@ -354,6 +357,10 @@ export class Chase {
       const dep = this.instanceDep;
       for (const a of d.atoms) this.addAtom(a, rule.id, dep);
       applied++;
+      if (plain) {
+        if (this.program.successor >= 0) for (const v of d.exists) st.addBinary(this.program.successor, centre, this.env[v]!, rule.id, dep);
+        break;
+      }
     }
     return applied;
   }

@@ -1,7 +1,7 @@
 // Compilation of a rule program for the chase: predicates to integer ids, variables to slots, and one join order per
 // choice of the body atom that reads the delta (semi-naive evaluation), plus a join order to test each head.
 
-import { DISTINCT, EQUALS, TOP, ruleShape, type Atom, type Rule, type RuleProgram, type RuleShape } from '../rules/types.js';
+import { DISTINCT, EQUALS, SUCCESSOR, TOP, ruleShape, type Atom, type Rule, type RuleProgram, type RuleShape } from '../rules/types.js';
 import { DISTINCT_ID, TOP_ID } from './store.js';
 
 export const UNARY = 0, BINARY = 1, EQUAL = 2;
@@ -54,6 +54,10 @@ export interface CompiledProgram {
   /** For each unary / binary predicate id: the (rule, body atom) pairs that read it, for dispatching delta rows. */
   readonly readersOfUnary: readonly (readonly [number, number][])[];
   readonly readersOfBinary: readonly (readonly [number, number][])[];
+  /** false: the plain restricted chase of a self-terminating program (RuleProgram.blocking). */
+  readonly blocking: boolean;
+  /** Binary id of SUCCESSOR when the rules read it (recorded for every created element), else -1. */
+  readonly successor: number;
 }
 
 /** Orders atoms greedily: fully bound first, then those sharing a bound variable, scans last. */
@@ -127,5 +131,6 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
     if (a.kind === UNARY) readersOfUnary[a.pred]!.push([r.id, i]);
     else if (a.kind === BINARY) readersOfBinary[a.pred]!.push([r.id, i]);
   });
-  return { rules, unaryIds, binaryIds, unaryNames, binaryNames, readersOfUnary, readersOfBinary };
+  const blocking = program.blocking !== false;
+  return { rules, unaryIds, binaryIds, unaryNames, binaryNames, readersOfUnary, readersOfBinary, blocking, successor: blocking ? -1 : binaryIds.get(SUCCESSOR) ?? -1 };
 }

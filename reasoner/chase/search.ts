@@ -40,6 +40,9 @@ interface ChoicePoint {
 function run(chase: Chase): boolean {
   for (;;) {
     if (!chase.saturate()) return false;
+    // Blocking off (a self-terminating program): disjunctions are non-generating and go before existentials;
+    // generation happens in `search` once no disjunction is open.
+    if (!chase.program.blocking) return true;
     if (chase.generate() === 0) return true;
   }
 }
@@ -81,6 +84,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
       const choice = nextChoice(chase);
+      if (choice < 0 && !chase.program.blocking && chase.generate() > 0) { ok = run(chase); continue; }
       if (choice < 0) {
         models++;
         if (hooks.onModel(chase, stack.length)) return finish();

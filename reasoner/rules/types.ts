@@ -1,7 +1,7 @@
 // The rule language: atoms over unary (class) and binary (property) predicates, rules whose head is a disjunction of
 // conjunctions with existential variables, equality ≈ and inequality ≉, and ⊥ as the empty head.
 
-import type { SourceRef } from '../model/normal.js';
+import { FRESH_PREFIX, type SourceRef } from '../model/normal.js';
 
 /** Built-in predicates. `⊤` holds for every element (so an empty class body still binds its variable). */
 export const TOP = '⊤';
@@ -54,7 +54,16 @@ export interface RuleProgram {
   readonly properties: readonly string[];
   /** True when no rule has a disjunctive head or an equality disjunction (the program is Horn). */
   readonly horn: boolean;
+  /**
+   * false: the program stops by its own rules (rewrite/disjunctive), so the engine runs the plain Datalog-first
+   * restricted chase — no dynamic blocking, disjunctions before existentials, one trigger at a time — and records each
+   * element it creates for x in `SUCCESSOR(x, y)`. Default true: the engine blocks dynamically.
+   */
+  readonly blocking?: boolean;
 }
+
+/** The successor relation the engine records for programs with `blocking: false` (a fresh name: never output). */
+export const SUCCESSOR = FRESH_PREFIX + 'successor';
 
 /** Returns the shape of a rule. */
 export function ruleShape(rule: Rule): RuleShape {
