@@ -90,8 +90,10 @@ export interface ReasonOptions {
   /**
    * How a Horn ontology is evaluated: 'datalog' (default) runs its Datalog rewriting (rewrite/horn, no anonymous
    * element); 'chase' runs the one-rule-per-axiom program with anonymous elements. Disjunctive ontologies always chase.
+   * 'rewriting' (any ontology) runs the published rewriting (rewrite/disjunctive) by the plain restricted chase with
+   * dynamic blocking off — the reference the optimised path is tested against; slower, never the default.
    */
-  readonly path?: 'datalog' | 'chase';
+  readonly path?: 'datalog' | 'chase' | 'rewriting';
 }
 
 export interface Explanation {

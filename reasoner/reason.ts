@@ -9,6 +9,7 @@ import { isFreshName, type NormalOntology } from './model/normal.js';
 import { OWL_BOTTOM_OBJECT_PROPERTY, OWL_NOTHING, OWL_SAME_AS, OWL_THING, OWL_TOP_OBJECT_PROPERTY, RDF_TYPE } from './model/vocabulary.js';
 import { rewriteOntology, rewritingStats } from './rewrite/rules-from-normal.js';
 import { hornProgramWithinLimits } from './rewrite/horn/index.js';
+import { rewriteToTerminatingRules } from './rewrite/disjunctive/index.js';
 import { printRule } from './rules/print.js';
 import type { Rule, RuleProgram } from './rules/types.js';
 import { entail, type ClashReport } from './chase/entail.js';
@@ -59,7 +60,8 @@ export async function reason(options: ReasonOptions, sink: FactSink): Promise<Re
     enter('rewrite');
     const perAxiom = rewriteOntology(normal);
     // Horn: the Datalog rewriting (README, "Horn path"), unless asked for the chase or over the saturation's limits.
-    const program = perAxiom.horn && options.path !== 'chase' ? hornProgramWithinLimits(normal)?.program ?? perAxiom : perAxiom;
+    const program = options.path === 'rewriting' ? rewriteToTerminatingRules(normal)
+      : perAxiom.horn && options.path !== 'chase' ? hornProgramWithinLimits(normal)?.program ?? perAxiom : perAxiom;
     const stats = rewritingStats(program, normal.axioms.length);
     const programText = program.rules.map((r) => printRule(r)).join('\n');
     const axiomText = new Map(report.entries.map((e) => [e.axiomId, { position: e.position, text: e.text }]));
@@ -112,6 +114,7 @@ function withDataVocabulary(program: RuleProgram, normal: NormalOntology, classe
     classes: [...new Set([...normal.classes, ...classes])],
     properties: [...new Set([...normal.properties, ...properties])],
     horn: program.horn,
+    blocking: program.blocking,
   };
 }
 

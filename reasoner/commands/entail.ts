@@ -23,7 +23,9 @@ class NTriplesOut implements FactSink {
 
 export async function run(args: string[]): Promise<number> {
   let parsed;
-  try { parsed = parseArgs(args, ['ontology', 'data', 'mapping', 'threads'], ['stats', 'approximate']); } catch (e) { process.stderr.write(`${(e as Error).message}\n`); return 2; }
+  try { parsed = parseArgs(args, ['ontology', 'data', 'mapping', 'threads', 'path'], ['stats', 'approximate']); } catch (e) { process.stderr.write(`${(e as Error).message}\n`); return 2; }
+  const path = parsed.values.get('path')?.[0];
+  if (path !== undefined && path !== 'datalog' && path !== 'chase' && path !== 'rewriting') { process.stderr.write(`entail: --path is datalog, chase or rewriting, not ${path}\n`); return 2; }
   const ontology = parsed.values.get('ontology')?.[0];
   if (!ontology) { process.stderr.write('entail: --ontology FILE is required\n'); return 2; }
   let csv: CsvMapping | undefined;
@@ -33,7 +35,7 @@ export async function run(args: string[]): Promise<number> {
   }
   const datasets: DatasetSource[] = (parsed.values.get('data') ?? []).map((path) => (path.endsWith('.csv') && csv ? { path, csv } : { path }));
   const out = new NTriplesOut();
-  const result = await reason({ ontology: { path: ontology }, datasets, mode: parsed.flags.has('approximate') ? 'approximate' : 'strict' }, out);
+  const result = await reason({ ontology: { path: ontology }, datasets, mode: parsed.flags.has('approximate') ? 'approximate' : 'strict', path }, out);
   await out.flush();
   const err = (line: string) => process.stderr.write(line + '\n');
   switch (result.status) {

@@ -92,11 +92,12 @@ function frameworkRules(classes: readonly string[], roles: readonly string[], us
 
   // Input facts keep the original names and are copied into the internal vocabulary; facts over the original names
   // are read back off at the end (only those of named individuals are output). A genuine edge has both views.
-  for (const c of userClasses) { add([unary(c, 'x')], [[unary(inClass(c), 'x')]]); add([unary(inClass(c), 'x')], [[unary(c, 'x')]]); }
-  for (const r of userRoles) {
-    add([binary(r, 'x', 'y')], [[binary(subjectView(r), 'x', 'y'), binary(objectView(r), 'x', 'y')]]);
-    add([binary(subjectView(r), 'x', 'y'), binary(objectView(r), 'x', 'y')], [[binary(r, 'x', 'y')]]);
-  }
+  // Input facts may use fresh names too (complex class assertions become X(a) with a fresh X), so every name of
+  // the signature is copied in; only user names are read off.
+  for (const c of classes) add([unary(c, 'x')], [[unary(inClass(c), 'x')]]);
+  for (const r of roles) add([binary(r, 'x', 'y')], [[binary(subjectView(r), 'x', 'y'), binary(objectView(r), 'x', 'y')]]);
+  for (const c of userClasses) add([unary(inClass(c), 'x')], [[unary(c, 'x')]]);
+  for (const r of userRoles) add([binary(subjectView(r), 'x', 'y'), binary(objectView(r), 'x', 'y')], [[binary(r, 'x', 'y')]]);
   // A created element and its predecessor see every edge between them: the views agree on successor pairs.
   add([succ('x', 'y')], [[unary(ANONYMOUS, 'y')]]);
   for (const r of roles) {
