@@ -119,9 +119,11 @@ const listing = await publishedListing(ctx, benchFacts(), { publisher, title: 'B
 const k = await subscriberWithKey(ctx, listing, { ratePerMinute: 1_000_000, monthlyQuota: 1_000_000_000 });
 const port = await freePort();
 // WORKERS server processes on one port (default 1: on the 2-core reference machine, where PostgreSQL and the load
-// generator need the cores too, a second web process measured slower — 745 vs 1020 lookups/s on 2026-12-02).
+// generator need the cores too, a second web process was not consistently faster — see server/marketplace.md).
 const WORKERS = Number(process.env.WORKERS ?? 1);
-const server = spawn(process.execPath, ['--import', 'tsx', 'tests/bench/serve-cluster.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production', WORKERS: String(WORKERS) }, stdio: ['ignore', 'ignore', 'inherit'] });
+// SERVER_NODE_ARGS passes flags to the server processes, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" to profile them.
+const serverArgs = (process.env.SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+const server = spawn(process.execPath, [...serverArgs, '--import', 'tsx', 'tests/bench/serve-cluster.ts'], { env: { ...process.env, PORT: String(port), NODE_ENV: 'production', WORKERS: String(WORKERS) }, stdio: ['ignore', 'ignore', 'inherit'] });
 const exited = new Promise<number | null>((resolve) => server.on('exit', resolve));
 const url = `http://127.0.0.1:${port}`;
 for (let i = 0; ; i++) {
