@@ -108,11 +108,16 @@ export class Chase {
     st.setRep(from, to, dep);
     if (from >= st.named) this.prune(from, dep);
     for (let r = st.firstUnaryAbout(from); r >= 0; r = st.nextUnaryByElem(r)) st.addUnary(st.unaryPred[r]!, to, st.unaryRule[r]!, deps.union(st.unaryDep[r]!, dep));
+    // The successor relation is not carried over (blocking off): the merged-away element was created for its
+    // predecessor, its representative was not, so the relation stays a forest and copies never include a merged one.
+    const succ = this.program.successor;
     for (let r = st.firstBinaryWithSubject(from); r >= 0; r = st.nextBinaryWithSubject(r)) {
+      if (st.binaryPred[r] === succ) continue;
       const o0 = st.binaryObj[r]!, o = st.find(o0);
       if (o >= 0) st.addBinary(st.binaryPred[r]!, to, o, st.binaryRule[r]!, deps.union(deps.union(st.binaryDep[r]!, dep), this.chainDep(o0)));
     }
     for (let r = st.firstBinaryWithObject(from); r >= 0; r = st.nextBinaryWithObject(r)) {
+      if (st.binaryPred[r] === succ) continue;
       const s0 = st.binarySubj[r]!, s = st.find(s0);
       if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!, deps.union(deps.union(st.binaryDep[r]!, dep), this.chainDep(s0)));
     }

@@ -117,7 +117,7 @@ function frameworkRules(classes: readonly string[], roles: readonly string[], us
     add([succ('x', 'y')], [[binary(subjectView(r), 'x', 'y')], [binary(absentDown(r), 'x', 'y')]]);
     add([binary(subjectView(r), 'x', 'y'), binary(absentDown(r), 'x', 'y')], []);
     add([succ('x', 'y')], [[binary(subjectView(r), 'y', 'x')], [binary(absentUp(r), 'x', 'y')]]);
-    add([succ('x', 'y'), binary(subjectView(r), 'y', 'x'), binary(absentUp(r), 'x', 'y')], []);
+    add([binary(subjectView(r), 'y', 'x'), binary(absentUp(r), 'x', 'y')], []);
   }
   // Type recognition, chained over the signature (each rule of bounded size): y and z, both with created
   // predecessors p and q, agree on every class, p and q agree on every class, and the edges p–y equal q–z.

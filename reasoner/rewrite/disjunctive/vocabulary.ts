@@ -28,11 +28,11 @@ export const objectView = (r: string) => internal('sees-as-object', r);
 export const absentDown = (r: string) => internal('absent-down', r);
 export const absentUp = (r: string) => internal('absent-up', r);
 /** y was created by the chase (it has a predecessor). */
-export const ANONYMOUS = internal('anonymous', '');
+export const ANONYMOUS = FRESH_PREFIX + 'anonymous';
 /** Step k of the chained comparison of two elements' types (bounded-size rules over the signature). */
 export const sameUpTo = (k: number) => internal('same-type-step', String(k));
 /** Two anonymous elements with anonymous predecessors and the same pairwise type. */
-export const SAME_TYPE = internal('same-type', '');
+export const SAME_TYPE = FRESH_PREFIX + 'same-type';
 
 export const unary = (predicate: string, x: string): Atom => ({ predicate, args: [x] });
 export const binary = (predicate: string, x: string, y: string): Atom => ({ predicate, args: [x, y] });

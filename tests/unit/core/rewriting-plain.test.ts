@@ -47,6 +47,14 @@ describe('published rewriting against the optimised path', () => {
     const facts = await agree({ axioms: [some('A', R, 'A'), only('A', Rinv, 'B'), some('B', Rinv, 'A'), atMost('A', 1, Rinv, null), sub(['B'], ['C', 'D'])], classFacts: [['A', 'a']], propertyFacts: [] });
     expect(facts?.has('B(a)')).toBe(true);
   });
+
+  // Kept from shrinking (3 properties, 4 individuals, seed 12): a successor merged into its predecessor's predecessor
+  // (≤2 R⁻ against ≥2 R⁻.A) must not stay a successor, or its copies count three R-predecessors and force merges
+  // no model needs; every element can have two R-predecessors and an R-successor without R(a, a) (hand-derived).
+  it('fixed case: A ⊑ ≤2 R⁻.⊤, A ⊑ ≥2 R⁻.A, A ⊑ ∃R.A, A(a) entails no R(a, a)', async () => {
+    const facts = await agree({ axioms: [atMost('A', 2, Rinv, null), atLeast('A', 2, Rinv, 'A'), some('A', R, 'A')], classFacts: [['A', 'a']], propertyFacts: [] });
+    expect(sorted(facts)).toBe('A(a)');
+  });
 });
 
 describe('termination comes from the rules', () => {
