@@ -30,10 +30,17 @@ async function agree(kb: TinyKb): Promise<Set<string> | null> {
 }
 
 describe('published rewriting against the optimised path', () => {
-  it('agrees (facts and consistency) on 500 random disjunctive knowledge bases with inverses, ≤n, ≥n and cyclic ∃', async () => {
+  it('agrees (facts and consistency) on 1000 random disjunctive knowledge bases with inverses, ≤n, ≥n and cyclic ∃', async () => {
     await fc.assert(fc.asyncProperty(tinyKb({ classes: 4, properties: 2, individuals: 3, axioms: 6, facts: 4, disjunctive: true, existential: true }), async (kb) => {
       await agree(kb);
-    }), { numRuns: 500, seed: 2020 });
+    }), { numRuns: 1000, seed: 2020 });
+  }, 120_000);
+
+  // Seed 12 of this shape reaches, at run 982, a case that runs out of time (README, "The published rewriting").
+  it('agrees on 300 random ones with three properties and four individuals', async () => {
+    await fc.assert(fc.asyncProperty(tinyKb({ classes: 4, properties: 3, individuals: 4, axioms: 8, facts: 5, disjunctive: true, existential: true }), async (kb) => {
+      await agree(kb);
+    }), { numRuns: 300, seed: 12 });
   }, 120_000);
 
   it('agrees on 250 random Horn knowledge bases with cyclic existentials', async () => {
