@@ -1,6 +1,6 @@
 // `rewrite`: prints the rule program of an ontology in logical notation, then its statistics; `--asp FILE` also
 // writes the existential-free part as ASP-Core-2. Horn ontologies print their Datalog rewriting (`--path chase`: one
-// rule per axiom).
+// rule per axiom; `--path rewriting`: the published rewriting whose plain chase stops without blocking).
 
 import { writeFile } from 'node:fs/promises';
 import { InputError, loadOntology, normalise, profile } from '../intake.js';

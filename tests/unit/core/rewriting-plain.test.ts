@@ -17,11 +17,13 @@ import { aspProgram, clingoFacts, type TinyKb } from '../../reference/asp-refere
 import { reason } from '../../../reasoner/index.js';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
+import { spawnSync } from 'node:child_process';
 
 const sorted = (s: Set<string> | null) => (s === null ? 'inconsistent' : [...s].sort().join(' '));
 // Backstop only (common-practice guard values for a test): small knowledge bases need far fewer elements.
 const limits = { maxElements: 5_000, maxBranches: 500_000, timeoutMs: 20_000 };
 const R = role('R'), Rinv = role('R', true);
+const fixture = (name: string) => join(dirname(fileURLToPath(import.meta.url)), 'fixtures', name);
 
 async function agree(kb: TinyKb): Promise<Set<string> | null> {
   const plain = await rewritingFacts(kb, limits);
@@ -132,7 +134,6 @@ describe('worked examples on the published rewriting', () => {
 });
 
 describe('reason() with path: rewriting', () => {
-  const fixture = (name: string) => join(dirname(fileURLToPath(import.meta.url)), 'fixtures', name);
   const collect = () => { const facts = new Set<string>(); return { facts, write: (s: string, p: string, o: string) => { facts.add(`${s} ${p} ${o}`); } }; };
 
   // The same files the optimised path is checked on (Oedipus of the DL Handbook, the OWL 2 Primer's family
@@ -148,4 +149,21 @@ describe('reason() with path: rewriting', () => {
       if (r.status === 'ok') expect(r.rewriting.largestArity).toBe(2);
     }, 30_000);
   }
+});
+
+describe('commands with --path rewriting', () => {
+  const cli = (...args: string[]) => spawnSync('npx', ['tsx', 'reasoner/cli.ts', ...args], { cwd: join(dirname(fileURLToPath(import.meta.url)), '../../..'), encoding: 'utf8' });
+
+  it('rewrite prints the program in logical notation with its statistics; entail gives the default path\'s triples', () => {
+    const printed = cli('rewrite', '--ontology', fixture('oedipus.ofn'), '--path', 'rewriting');
+    expect(printed.status).toBe(0);
+    expect(printed.stdout).toMatch(/→ .* ∨ /);
+    expect(printed.stdout).toMatch(/% largest body: \d+ atoms; largest arity: 2/);
+    expect(printed.stdout).toMatch(/published rewriting: chased with dynamic blocking off/);
+    const viaRewriting = cli('entail', '--ontology', fixture('oedipus.ofn'), '--data', fixture('oedipus.nt'), '--path', 'rewriting');
+    const viaDefault = cli('entail', '--ontology', fixture('oedipus.ofn'), '--data', fixture('oedipus.nt'));
+    expect(viaRewriting.status).toBe(0);
+    expect(viaRewriting.stdout.split('\n').sort()).toEqual(viaDefault.stdout.split('\n').sort());
+    expect(cli('entail', '--ontology', fixture('oedipus.ofn'), '--path', 'sideways').stderr).toMatch(/--path is datalog, chase or rewriting, not sideways/);
+  }, 60_000);
 });
