@@ -36,12 +36,15 @@ npx vite build --logLevel warn || die "client build failed"
 
 npx vitest run --reporter=default --reporter=json --outputFile.json="$ARTIFACTS/vitest.json" "$@"
 status=$?
-node -e '
+summary="$(node -e '
   const fs = require("fs");
   try {
     const r = JSON.parse(fs.readFileSync(process.argv[1], "utf8"));
     const skipped = (r.numPendingTests || 0) + (r.numTodoTests || 0);
     console.log(`${r.numPassedTests} passed, ${r.numFailedTests} failed` + (skipped ? `, ${skipped} skipped` : ""));
   } catch { console.log("0 passed, 1 failed"); }
-' "$ARTIFACTS/vitest.json"
+' "$ARTIFACTS/vitest.json")"
+# Stop the stand-ins and the cluster first, so the runner's counts are the last line printed.
+cleanup
+echo "$summary"
 exit $status
