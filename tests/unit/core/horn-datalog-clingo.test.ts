@@ -6,8 +6,7 @@
 import { execFileSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { describeKb, tinyKb, type KbShape } from './kb-tools.js';
-import { normalOf, programFacts, sortedFacts } from './horn-datalog-tools.js';
+import { describeKb, tinyKb, type KbShape, normalOf, programFacts, sortedFacts } from './kb-tools.js';
 import { rewriteHornToDatalog } from '../../../reasoner/rewrite/horn/index.js';
 import { toAsp } from '../../../reasoner/rules/asp.js';
 import type { RuleProgram } from '../../../reasoner/rules/types.js';

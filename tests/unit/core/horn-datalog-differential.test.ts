@@ -5,8 +5,7 @@
 
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { describeKb, tinyKb, some, only, atMost, atLeast, incl, role, sub, type KbShape } from './kb-tools.js';
-import { normalOf, programFacts, sortedFacts } from './horn-datalog-tools.js';
+import { describeKb, tinyKb, some, only, atMost, atLeast, incl, role, sub, type KbShape, normalOf, programFacts, sortedFacts } from './kb-tools.js';
 import { rewriteOntology } from '../../../reasoner/rewrite/rules-from-normal.js';
 import { rewriteHornToDatalog } from '../../../reasoner/rewrite/horn/index.js';
 import { ruleShape } from '../../../reasoner/rules/types.js';

@@ -3,8 +3,7 @@
 // checked against the chase and, where existentials are acyclic, against clingo on the Skolem reference encoding.
 
 import { describe, expect, it } from 'vitest';
-import { atMost, incl, only, role, some, sub } from './kb-tools.js';
-import { normalOf, programFacts, sortedFacts } from './horn-datalog-tools.js';
+import { atMost, incl, only, role, some, sub, normalOf, programFacts, sortedFacts } from './kb-tools.js';
 import { rewriteOntology } from '../../../reasoner/rewrite/rules-from-normal.js';
 import { hornDatalog } from '../../../reasoner/rewrite/horn/index.js';
 import { aspProgram, clingoFacts, type TinyKb } from '../../reference/asp-reference.js';

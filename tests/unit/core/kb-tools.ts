@@ -2,7 +2,8 @@
 // knowledge bases (fast-check arbitraries, so counterexamples shrink).
 
 import fc from 'fast-check';
-import type { NormalAxiom, PropertyRef } from '../../../reasoner/model/normal.js';
+import { isFreshName, type NormalAxiom, type NormalOntology, type PropertyRef } from '../../../reasoner/model/normal.js';
+import type { RuleProgram } from '../../../reasoner/rules/types.js';
 import { rewriteOntology } from '../../../reasoner/rewrite/rules-from-normal.js';
 import { entail, type ChaseInput } from '../../../reasoner/chase/entail.js';
 import { Guard } from '../../../reasoner/chase/guard.js';
@@ -11,22 +12,30 @@ import type { ResourceLimits } from '../../../reasoner/api.js';
 
 const SOURCE = { axiomId: 0, position: 'test:1:1' };
 
-/** Runs the chase on the knowledge base; returns facts as `C(a)`, `R(a,b)`, `a=b`, or null if inconsistent. */
-export async function engineFacts(kb: TinyKb, path: 'optimised' | 'plain' = 'optimised', limits?: ResourceLimits): Promise<Set<string> | null> {
+/** The normal form of the knowledge base's TBox, with its signature (and the facts' names too, when asked). */
+export function normalOf(kb: TinyKb, withFactVocabulary = false): NormalOntology {
   const classes = new Set<string>(), properties = new Set<string>();
+  if (withFactVocabulary) {
+    kb.classFacts.forEach(([c]) => classes.add(c));
+    kb.propertyFacts.forEach(([r]) => properties.add(r));
+  }
   for (const a of kb.axioms) {
     if (a.kind === 'subsumption') { a.body.forEach((c) => classes.add(c)); a.head.forEach((c) => classes.add(c)); }
     else if (a.kind === 'propertyInclusion') { properties.add(a.sub.name); properties.add(a.sup.name); }
     else if (a.kind === 'propertyDisjointness') { properties.add(a.properties[0].name); properties.add(a.properties[1].name); }
     else { classes.add(a.sub); if (a.filler) classes.add(a.filler); properties.add(a.property.name); }
   }
-  const program = rewriteOntology({ axioms: kb.axioms, classes: [...classes], properties: [...properties], assertions: [] });
+  return { axioms: kb.axioms, classes: [...classes].sort(), properties: [...properties].sort(), assertions: [] };
+}
+
+/** The knowledge base's facts as chase input, and the individual names by id. */
+export function inputOf(kb: TinyKb): { input: ChaseInput; individuals: string[] } {
   const individuals: string[] = [], idOf = new Map<string, number>();
   const ind = (n: string) => { let i = idOf.get(n); if (i === undefined) { i = individuals.length; idOf.set(n, i); individuals.push(n); } return i; };
   const classNames: string[] = [], propertyNames: string[] = [];
   const nameId = (list: string[], n: string) => { let i = list.indexOf(n); if (i < 0) { i = list.length; list.push(n); } return i; };
   const same = kb.same ?? [], different = kb.different ?? [];
-  const input: ChaseInput = {
+  const input = {
     classPred: Int32Array.from(kb.classFacts.map(([c]) => nameId(classNames, c))),
     classInd: Int32Array.from(kb.classFacts.map(([, a]) => ind(a))),
     propPred: Int32Array.from(kb.propertyFacts.map(([r]) => nameId(propertyNames, r))),
@@ -34,16 +43,38 @@ export async function engineFacts(kb: TinyKb, path: 'optimised' | 'plain' = 'opt
     propObj: Int32Array.from(kb.propertyFacts.map(([, , b]) => ind(b))),
     sameA: Int32Array.from(same.map(([a]) => ind(a))), sameB: Int32Array.from(same.map(([, b]) => ind(b))),
     diffA: Int32Array.from(different.map(([a]) => ind(a))), diffB: Int32Array.from(different.map(([, b]) => ind(b))),
-    classNames, propertyNames, individuals: 0,
+    classNames, propertyNames,
   };
+  return { input: { ...input, individuals: individuals.length }, individuals };
+}
+
+/**
+ * Runs the engine on a rule program and the knowledge base's facts; facts as `C(a)`, `R(a,b)`, `a=b` (internal names
+ * left out), or null if inconsistent; also how many anonymous elements the run made.
+ */
+export async function programFacts(
+  program: RuleProgram,
+  kb: TinyKb,
+  limits?: ResourceLimits,
+  path: 'optimised' | 'plain' = 'optimised',
+): Promise<{ facts: Set<string> | null; anonymous: number }> {
+  const { input, individuals } = inputOf(kb);
   const facts = new Set<string>();
-  const outcome = await entail(program, { ...input, individuals: individuals.length }, {
-    unary: (c, i) => facts.add(`${c}(${individuals[i]})`),
-    binary: (p, s, o) => facts.add(`${p}(${individuals[s]},${individuals[o]})`),
+  const outcome = await entail(program, input, {
+    unary: (c, i) => { if (!isFreshName(c)) facts.add(`${c}(${individuals[i]})`); },
+    binary: (p, s, o) => { if (!isFreshName(p)) facts.add(`${p}(${individuals[s]},${individuals[o]})`); },
     same: (a, b) => facts.add(`${individuals[a]}=${individuals[b]}`),
   }, { guard: new Guard(limits), path });
-  return outcome.status === 'ok' ? facts : null;
+  return { facts: outcome.status === 'ok' ? facts : null, anonymous: outcome.stats.anonymousElements };
 }
+
+/** Runs the chase on the one-rule-per-axiom program of the knowledge base; facts as above, or null if inconsistent. */
+export async function engineFacts(kb: TinyKb, path: 'optimised' | 'plain' = 'optimised', limits?: ResourceLimits): Promise<Set<string> | null> {
+  return (await programFacts(rewriteOntology(normalOf(kb)), kb, limits, path)).facts;
+}
+
+/** Facts as one sorted line, or "inconsistent". */
+export const sortedFacts = (s: Set<string> | null) => (s === null ? 'inconsistent' : [...s].sort().join(' '));
 
 export const sub = (body: string[], head: string[]): NormalAxiom => ({ kind: 'subsumption', body, head, source: SOURCE });
 export const role = (name: string, inverse = false): PropertyRef => ({ name, inverse });
