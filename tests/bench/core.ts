@@ -2,13 +2,13 @@
 // (1) Horn path against clingo on the same Datalog program with 1M+ input facts: wall-time ratio, bytes per fact;
 // (2) a disjunctive knowledge base with number restrictions and 10k individuals; (3) rewriting size and time.
 
-import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { rewriteOntology } from '../../reasoner/rewrite/rules-from-normal.js';
 import { toAsp } from '../../reasoner/rules/asp.js';
-import { entail, type ChaseInput, type EntailedSink } from '../../reasoner/chase/entail.js';
+import { entail, type ChaseInput } from '../../reasoner/chase/entail.js';
+import { clingo, CountingSink } from './bench-tools.js';
 import { Guard } from '../../reasoner/chase/guard.js';
 import { catalogueAbox, disjunctiveCatalogue, hornDatalogOntology, mixedNormalForm, randomAbox } from './core-generators.js';
 
@@ -17,29 +17,6 @@ const part = args.includes('--part') ? Number(args[args.indexOf('--part') + 1]) 
 const runs = args.includes('--runs') ? Number(args[args.indexOf('--runs') + 1]) : 3;
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 const mib = (b: number) => `${(b / 2 ** 20).toFixed(1)} MiB`;
-
-class CountingSink implements EntailedSink {
-  n = 0;
-  unary(): void { this.n++; }
-  binary(): void { this.n++; }
-  same(): void { this.n++; }
-}
-
-/** Runs clingo on a file; returns wall ms and peak resident bytes (from /usr/bin/time -v). */
-function clingo(file: string): { ms: number; peak: number } {
-  const t0 = performance.now();
-  let err = '';
-  try {
-    execFileSync('/usr/bin/time', ['-v', '/usr/bin/clingo', '--mode=clingo', '-q', file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'], maxBuffer: 1 << 26 });
-  } catch (e) {
-    const x = e as { status?: number; stderr?: string };
-    if (x.status !== 10 && x.status !== 30 && x.status !== 20) throw e;
-    err = x.stderr ?? '';
-  }
-  const ms = performance.now() - t0;
-  const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(err);
-  return { ms, peak: m ? Number(m[1]) * 1024 : NaN };
-}
 
 function aspFacts(input: ChaseInput, ids: ReadonlyMap<string, string>): string {
   const out: string[] = [];

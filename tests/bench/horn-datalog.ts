@@ -5,7 +5,6 @@
 // both measured in this run: wall-time ratio, bytes per entailed fact, medians of several runs. `--chase` also times
 // the one-rule-per-axiom program with anonymous elements on the same input.
 
-import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -14,7 +13,8 @@ import { rewriteOntology } from '../../reasoner/rewrite/rules-from-normal.js';
 import { hornDatalog } from '../../reasoner/rewrite/horn/index.js';
 import { ruleShape } from '../../reasoner/rules/types.js';
 import { toAsp } from '../../reasoner/rules/asp.js';
-import { entail, type ChaseInput, type EntailedSink } from '../../reasoner/chase/entail.js';
+import { entail, type ChaseInput } from '../../reasoner/chase/entail.js';
+import { clingo, CountingSink } from './bench-tools.js';
 import { Guard } from '../../reasoner/chase/guard.js';
 import { random } from './core-generators.js';
 
@@ -64,29 +64,6 @@ function abox(n: number, classes: number, properties: number, seed = 11): ChaseI
   };
 }
 
-class CountingSink implements EntailedSink {
-  n = 0;
-  unary(): void { this.n++; }
-  binary(): void { this.n++; }
-  same(): void { this.n++; }
-}
-
-/** clingo on a file (grounding and solving, one model): wall ms and peak resident bytes from /usr/bin/time -v. */
-function clingo(file: string): { ms: number; peak: number } {
-  const t0 = performance.now();
-  let err = '';
-  try {
-    execFileSync('/usr/bin/time', ['-v', '/usr/bin/clingo', '--mode=clingo', '-n', '1', '-q', file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'], maxBuffer: 1 << 26 });
-  } catch (e) {
-    const x = e as { status?: number; stderr?: string };
-    if (x.status !== 10 && x.status !== 30 && x.status !== 20) throw e;
-    err = x.stderr ?? '';
-  }
-  const ms = performance.now() - t0;
-  const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(err);
-  return { ms, peak: m ? Number(m[1]) * 1024 : NaN };
-}
-
 const normal = hornOntology(functional);
 const size = functional ? functionalIndividuals : individuals;
 console.log(`== Horn path: ${functional ? 'with ≤1 (≈ in the program)' : 'without ≤1 (plain Datalog)'}, ${size} individuals`);
@@ -122,7 +99,7 @@ for (let r = 0; r < runs; r++) {
   rssGrowth = Math.max(rssGrowth, Math.max(peak1 - peak0, process.memoryUsage().rss - rss0));
   entailed = sink.n; storeBytes = outcome.stats.storeBytes; anonymous = outcome.stats.anonymousElements;
   if (outcome.status !== 'ok') console.log('(inconsistent)');
-  const c = clingo(file);
+  const c = clingo(file, ['-n', '1']);
   theirs.push(c.ms); clingoPeak = c.peak;
 }
 rmSync(dir, { recursive: true, force: true });
