@@ -174,11 +174,12 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
     while (open.length > 0) {
       const f = open.pop()!;
       let model: Set<string> | null = null;
-      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates.
+      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not on
+      // a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
       models += search(chase, guard, {
         violated: (c) => holdsKey(c, f),
         onModel: (c) => { model = keyOf(namedFacts(c)); return true; },
-      }, { reverse });
+      }, { reverse: reverse && program.blocking });
       reverse = !reverse;
       if (model === null) entailed.push(f);
       else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }

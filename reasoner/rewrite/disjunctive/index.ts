@@ -10,7 +10,7 @@ import { FRESH_TOP, type NormalAxiom, type NormalOntology, type PropertyRef } fr
 import { DISTINCT, EQUALS, TOP, type Atom, type Rule, type RuleProgram } from '../../rules/types.js';
 import { SUCCESSOR } from '../../rules/types.js';
 import {
-  ANONYMOUS, SAME_TYPE, absentClass, absentDown, absentUp, binary, inClass, objectView, sameUpTo, subjectView, unary,
+  ANONYMOUS, GENERATING, SAME_TYPE, absentClass, absentDown, absentUp, binary, inClass, objectView, sameUpTo, subjectView, unary,
 } from './vocabulary.js';
 
 
@@ -72,20 +72,39 @@ export function rulesOfAxiom(axiom: NormalAxiom): Rule[] {
   }
 }
 
-/** Every class and role name the axioms mention, with the user vocabulary. */
-function signature(normal: NormalOntology): { classes: string[]; roles: string[] } {
+/**
+ * Every class and role name the axioms mention, with the user vocabulary; and the names to guess at created elements:
+ * those with a positive occurrence (a head: they can arrive at an element later) and a negative one (a body: they
+ * change what happens there). A name with no positive occurrence is never true at a created element (absent, no guess
+ * needed); one with no negative occurrence changes nothing where it holds (a model stays a model when it is added), so
+ * neither needs a guess nor a place in the type comparison.
+ */
+export function signature(normal: NormalOntology): { classes: string[]; roles: string[]; guessedClasses: string[]; guessedRoles: string[] } {
   const classes = new Set<string>(normal.classes), roles = new Set<string>(normal.properties);
+  const pos = new Set<string>(), neg = new Set<string>(), posRole = new Set<string>(), negRole = new Set<string>();
+  const c = (name: string, into: Set<string>) => { classes.add(name); into.add(name); };
+  const r = (p: PropertyRef, into: Set<string>) => { roles.add(p.name); into.add(p.name); };
   for (const a of normal.axioms) {
-    if (a.kind === 'subsumption') { a.body.forEach((c) => classes.add(c)); a.head.forEach((c) => classes.add(c)); }
-    else if (a.kind === 'propertyInclusion') { roles.add(a.sub.name); roles.add(a.sup.name); }
-    else if (a.kind === 'propertyDisjointness') { roles.add(a.properties[0].name); roles.add(a.properties[1].name); }
-    else { classes.add(a.sub); if (a.filler !== null) classes.add(a.filler); roles.add(a.property.name); }
+    switch (a.kind) {
+      case 'subsumption': a.body.forEach((x) => c(x, neg)); a.head.forEach((x) => c(x, pos)); break;
+      case 'exists': case 'atLeast': c(a.sub, neg); r(a.property, posRole); if (a.filler !== null) c(a.filler, pos); break;
+      case 'forall': c(a.sub, neg); r(a.property, negRole); if (a.filler !== null) c(a.filler, pos); break;
+      case 'atMost': c(a.sub, neg); r(a.property, negRole); if (a.filler !== null) c(a.filler, neg); break;
+      case 'propertyInclusion': r(a.sub, negRole); r(a.sup, posRole); break;
+      case 'propertyDisjointness': r(a.properties[0], negRole); r(a.properties[1], negRole); break;
+    }
   }
-  return { classes: [...classes], roles: [...roles] };
+  return {
+    classes: [...classes],
+    roles: [...roles],
+    guessedClasses: [...classes].filter((x) => x !== FRESH_TOP && pos.has(x) && neg.has(x)),
+    guessedRoles: [...roles].filter((x) => posRole.has(x) && negRole.has(x)),
+  };
 }
 
 /** Rules that are not about one axiom: input copy, read-off, successor views, completion, type recognition, copying. */
-function frameworkRules(classes: readonly string[], roles: readonly string[], userClasses: readonly string[], userRoles: readonly string[]): Rule[] {
+function frameworkRules(sig: ReturnType<typeof signature>, userClasses: readonly string[], userRoles: readonly string[]): Rule[] {
+  const { classes, roles, guessedClasses: guessed, guessedRoles } = sig;
   const rules: Rule[] = [];
   const add = (body: Atom[], head: Atom[][]) => rules.push({ body, head: head.map(fact), source: null });
   const succ = (x: string, y: string) => binary(SUCCESSOR, x, y);
@@ -106,23 +125,26 @@ function frameworkRules(classes: readonly string[], roles: readonly string[], us
       add([succ('x', 'y'), binary(objectView(r), s, t)], [[binary(subjectView(r), s, t)]]);
     }
   }
-  // Completion: every class at every created element, and every role in both directions towards its predecessor,
-  // is guessed present or absent; constraints reject a guess that the axioms contradict later.
-  const guessed = classes.filter((c) => c !== FRESH_TOP);
+  // Completion: every relevant class (see `signature`) at every created element, and every relevant role in both
+  // directions towards its predecessor, is guessed absent or present — absent first, so that the first branch
+  // holds only what is forced and types stay few; constraints reject a guess that the axioms contradict later.
   for (const c of guessed) {
-    add([unary(ANONYMOUS, 'y')], [[unary(inClass(c), 'y')], [unary(absentClass(c), 'y')]]);
+    add([unary(ANONYMOUS, 'y')], [[unary(absentClass(c), 'y')], [unary(inClass(c), 'y')]]);
     add([unary(inClass(c), 'y'), unary(absentClass(c), 'y')], []);
   }
-  for (const r of roles) {
-    add([succ('x', 'y')], [[binary(subjectView(r), 'x', 'y')], [binary(absentDown(r), 'x', 'y')]]);
+  for (const r of guessedRoles) {
+    add([succ('x', 'y')], [[binary(absentDown(r), 'x', 'y')], [binary(subjectView(r), 'x', 'y')]]);
     add([binary(subjectView(r), 'x', 'y'), binary(absentDown(r), 'x', 'y')], []);
-    add([succ('x', 'y')], [[binary(subjectView(r), 'y', 'x')], [binary(absentUp(r), 'x', 'y')]]);
+    add([succ('x', 'y')], [[binary(absentUp(r), 'x', 'y')], [binary(subjectView(r), 'y', 'x')]]);
     add([binary(subjectView(r), 'y', 'x'), binary(absentUp(r), 'x', 'y')], []);
   }
   // Type recognition, chained over the signature (each rule of bounded size): y and z, both with created
-  // predecessors p and q, agree on every class, p and q agree on every class, and the edges p–y equal q–z.
+  // predecessors p and q, agree on every relevant class, p and q agree on every relevant class, and the edges p–y
+  // equal q–z. Only elements z that have generated successors are compared: copying (below) reads nothing else, and
+  // so the comparison holds |elements| × |generating elements| pairs rather than |elements|².
   let k = 0;
-  add([succ('p', 'y'), unary(ANONYMOUS, 'p'), succ('q', 'z'), unary(ANONYMOUS, 'q')], [[binary(sameUpTo(0), 'y', 'z')]]);
+  add([succ('x', 'y')], [[unary(GENERATING, 'x')]]);
+  add([succ('p', 'y'), unary(ANONYMOUS, 'p'), succ('q', 'z'), unary(ANONYMOUS, 'q'), unary(GENERATING, 'z')], [[binary(sameUpTo(0), 'y', 'z')]]);
   const step = (extra: (present: boolean) => Atom[]) => {
     for (const present of [true, false]) add([binary(sameUpTo(k), 'y', 'z'), ...extra(present)], [[binary(sameUpTo(k + 1), 'y', 'z')]]);
     k++;
@@ -130,7 +152,7 @@ function frameworkRules(classes: readonly string[], roles: readonly string[], us
   const parents = [succ('p', 'y'), succ('q', 'z')];
   for (const c of guessed) step((present) => [unary(present ? inClass(c) : absentClass(c), 'y'), unary(present ? inClass(c) : absentClass(c), 'z')]);
   for (const c of guessed) step((present) => [...parents, unary(present ? inClass(c) : absentClass(c), 'p'), unary(present ? inClass(c) : absentClass(c), 'q')]);
-  for (const r of roles) {
+  for (const r of guessedRoles) {
     step((present) => present ? [...parents, binary(subjectView(r), 'p', 'y'), binary(subjectView(r), 'q', 'z')] : [...parents, binary(absentDown(r), 'p', 'y'), binary(absentDown(r), 'q', 'z')]);
     step((present) => present ? [...parents, binary(subjectView(r), 'y', 'p'), binary(subjectView(r), 'z', 'q')] : [...parents, binary(absentUp(r), 'p', 'y'), binary(absentUp(r), 'q', 'z')]);
   }
@@ -151,7 +173,6 @@ function frameworkRules(classes: readonly string[], roles: readonly string[], us
  * (quadratic only through ≥n/≤n pairs, as in the per-axiom rewriting) and every rule has bounded size except those.
  */
 export function rewriteToTerminatingRules(normal: NormalOntology): RuleProgram {
-  const { classes, roles } = signature(normal);
-  const rules = [...normal.axioms.flatMap(rulesOfAxiom), ...frameworkRules(classes, roles, normal.classes, normal.properties)];
+  const rules = [...normal.axioms.flatMap(rulesOfAxiom), ...frameworkRules(signature(normal), normal.classes, normal.properties)];
   return { rules, classes: normal.classes, properties: normal.properties, horn: false, blocking: false };
 }

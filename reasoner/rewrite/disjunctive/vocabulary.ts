@@ -29,6 +29,8 @@ export const absentDown = (r: string) => internal('absent-down', r);
 export const absentUp = (r: string) => internal('absent-up', r);
 /** y was created by the chase (it has a predecessor). */
 export const ANONYMOUS = FRESH_PREFIX + 'anonymous';
+/** The element has generated a successor (only such elements are compared as the source of copies). */
+export const GENERATING = FRESH_PREFIX + 'generating';
 /** Step k of the chained comparison of two elements' types (bounded-size rules over the signature). */
 export const sameUpTo = (k: number) => internal('same-type-step', String(k));
 /** Two anonymous elements with anonymous predecessors and the same pairwise type. */
