@@ -28,15 +28,15 @@ export class InvalidCursorError extends Error {
 
 export const MAX_PAGE_SIZE = 10_000;
 
-type Position = 's' | 'p' | 'o';
-const ORDERS: Record<string, readonly [Position, Position, Position]> = {
+export type Position = 's' | 'p' | 'o';
+export const ORDERS: Record<string, readonly [Position, Position, Position]> = {
   spo: ['s', 'p', 'o'],
   pos: ['p', 'o', 's'],
   osp: ['o', 's', 'p'],
 };
 
 /** Returns the index order whose leading columns are exactly the bound positions of the pattern. */
-function orderFor(pattern: FactPattern): 'spo' | 'pos' | 'osp' {
+export function orderFor(pattern: FactPattern): 'spo' | 'pos' | 'osp' {
   const s = pattern.subject !== undefined, p = pattern.predicate !== undefined, o = pattern.object !== undefined;
   if (p && !s) return 'pos';
   if (o && !p) return 'osp';
@@ -59,7 +59,7 @@ function encodeCursor(order: string, row: { s: number; p: number; o: number }): 
   const cols = ORDERS[order]!;
   return Buffer.from(`${order}:${cols.map((c) => row[c]).join('.')}`).toString('base64url');
 }
-function decodeCursor(cursor: string, order: string): [number, number, number] {
+export function decodeCursor(cursor: string, order: string): [number, number, number] {
   const text = Buffer.from(cursor, 'base64url').toString('utf8');
   const match = /^(spo|pos|osp):(\d{1,10})\.(\d{1,10})\.(\d{1,10})$/.exec(text);
   if (!match || match[1] !== order) throw new InvalidCursorError();
@@ -98,18 +98,25 @@ export async function lookupFacts(
   page: { limit: number; cursor?: string | null },
 ): Promise<FactPage> {
   const { statement, order, limit } = lookupStatement(storeKey, pattern, page);
-  let rows: { subject?: string; predicate?: string; object?: string; asserted: boolean; s: number; p: number; o: number }[];
+  let rows: FactRowOut[];
   try {
     rows = (await pool.query(statement)).rows;
   } catch (error) {
     if ((error as { code?: string }).code === '42P01') return { facts: [], nextCursor: null };
     throw error;
   }
+  return toPage(rows, pattern, order, limit);
+}
+
+export interface FactRowOut { subject?: string; predicate?: string; object?: string; asserted: boolean; s: number; p: number; o: number }
+
+/** A page from the rows of a lookup statement (up to limit + 1 rows; one more than the limit means there is a next page). */
+export function toPage(rows: FactRowOut[], pattern: FactPattern, order: 'spo' | 'pos' | 'osp', limit: number): FactPage {
   const more = rows.length > limit;
-  if (more) rows.length = limit;
-  const last = rows[rows.length - 1];
-  const facts: StoredFact[] = new Array(rows.length);
-  for (let i = 0; i < rows.length; i++) {
+  const n = more ? limit : rows.length;
+  const last = rows[n - 1];
+  const facts: StoredFact[] = new Array(n);
+  for (let i = 0; i < n; i++) {
     const r = rows[i];
     facts[i] = { subject: pattern.subject ?? r.subject!, predicate: pattern.predicate ?? r.predicate!, object: pattern.object ?? r.object!, asserted: r.asserted };
   }
@@ -146,6 +153,15 @@ export function lookupStatement(storeKey: number, pattern: FactPattern, page: { 
  * index from its first id up to the largest id on the page — thousands of rows for a page of ten — and a sort.)
  */
 function lookupSql(storeKey: number, pattern: FactPattern, where: string[], cols: readonly Position[], limitParam: number): string {
+  return `SELECT ${selectList(storeKey, pattern).join(', ')}
+    FROM ${factsTable(storeKey)} f
+    ${where.length ? 'WHERE ' + where.join(' AND ') : ''}
+    ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]}
+    LIMIT $${limitParam}`;
+}
+
+/** The columns a lookup returns for fact table alias f: ids and asserted, plus the term of each unbound position. */
+export function selectList(storeKey: number, pattern: FactPattern): string[] {
   const terms = termsTable(storeKey);
   const select = ['f.asserted', 'f.s', 'f.p', 'f.o'];
   const open = (col: Position, name: 'subject' | 'predicate' | 'object') => {
@@ -154,11 +170,7 @@ function lookupSql(storeKey: number, pattern: FactPattern, where: string[], cols
   open('s', 'subject');
   open('p', 'predicate');
   open('o', 'object');
-  return `SELECT ${select.join(', ')}
-    FROM ${factsTable(storeKey)} f
-    ${where.length ? 'WHERE ' + where.join(' AND ') : ''}
-    ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]}
-    LIMIT $${limitParam}`;
+  return select;
 }
 
 /** Number of facts matching a pattern (an index-only count; cheap for bound patterns, a full index scan when nothing is bound). */

@@ -3,7 +3,8 @@
 import type { RequestHandler } from 'express';
 import type { AppContext } from '../context.js';
 import { badRequest } from '../http/errors.js';
-import { InvalidCursorError, lookupFacts, type FactPattern, type PublishedVersion } from '../services/factStore.js';
+import { InvalidCursorError, type FactPattern, type PublishedVersion } from '../services/factStore.js';
+import { factLookupBatcher } from '../services/factBatch.js';
 import { canonicalLiteral, isIri, isNTriplesLiteral, sendJson } from './terms.js';
 
 export const DEFAULT_LIMIT = 100;
@@ -44,6 +45,7 @@ export function readPattern(query: Record<string, unknown>): FactPattern {
 }
 
 export function factsHandler(ctx: AppContext): RequestHandler {
+  const batcher = factLookupBatcher(ctx.pool);
   return async (req, res, next) => {
     try {
       const version = res.locals.version as PublishedVersion;
@@ -55,7 +57,8 @@ export function factsHandler(ctx: AppContext): RequestHandler {
       const all = pattern.subject !== undefined && pattern.predicate !== undefined && pattern.object !== undefined;
       let page;
       try {
-        page = await lookupFacts(ctx.pool, version.storeKey, pattern, { limit: all ? 1 : limit, cursor: all ? null : cursor });
+        // Coalesced with the other lookups of this event-loop turn into one statement (server/services/factBatch.ts).
+        page = await batcher.lookup(version.storeKey, pattern, { limit: all ? 1 : limit, cursor: all ? null : cursor });
       } catch (error) {
         if (error instanceof InvalidCursorError) throw badRequest(error.message, { cursor: ['Not a cursor this query handed out.'] });
         throw error;

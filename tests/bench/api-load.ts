@@ -13,6 +13,7 @@ import { createContext, closeContext } from '../../server/bootstrap.js';
 import { createTestUser } from '../support/app.js';
 import { publishedListing, subscriberWithKey, type FactRow } from '../support/market.js';
 import { lookupStatement } from '../../server/services/factStore.js';
+import { FactLookupBatcher } from '../../server/services/factBatch.js';
 
 const SECONDS = Number(process.argv[2] ?? 10);
 const CONNECTIONS = 32;
@@ -91,20 +92,23 @@ async function runHttp(url: string, auth: string, path: (slug: string) => string
 }
 
 /**
- * The same queries as the HTTP runs, one SQL each, issued by 32 concurrent loops for the same time: the very named
- * statement the API's fact store sends for one request (lookupStatement), so a better plan speeds both sides alike.
+ * The same queries as the HTTP runs, issued by 32 concurrent loops for the same time, straight to PostgreSQL: either one
+ * SQL each — the named statement lookupFacts sends for one query (lookupStatement) — or, `coalesced`, through the
+ * API's own FactLookupBatcher, i.e. the very statements the API sends. A better plan speeds both sides alike.
  */
-async function runDirect(pool: pg.Pool, storeKey: number, kind: 'lookup' | 'pattern') {
+async function runDirect(pool: pg.Pool, storeKey: number, kind: 'lookup' | 'pattern', coalesced: boolean) {
+  const batcher = new FactLookupBatcher(pool);
   const latencies: number[] = [];
   const until = Date.now() + SECONDS * 1000;
   await Promise.all(Array.from({ length: CONNECTIONS }, async () => {
     while (Date.now() < until) {
       const i = pick();
-      const { statement } = kind === 'lookup'
-        ? lookupStatement(storeKey, { subject: `${EX}v${i}`, predicate: RDF_TYPE, object: `${EX}Craft` }, { limit: 1 })
-        : lookupStatement(storeKey, i % 2 ? { subject: `${EX}v${i}` } : { predicate: `${EX}berthedAt`, object: `${EX}q${i % 50}` }, { limit: 10 });
+      const [pattern, limit] = kind === 'lookup'
+        ? [{ subject: `${EX}v${i}`, predicate: RDF_TYPE, object: `${EX}Craft` }, 1]
+        : [i % 2 ? { subject: `${EX}v${i}` } : { predicate: `${EX}berthedAt`, object: `${EX}q${i % 50}` }, 10];
       const t0 = process.hrtime.bigint();
-      await pool.query(statement);
+      if (coalesced) await batcher.lookup(storeKey, pattern, { limit });
+      else await pool.query(lookupStatement(storeKey, pattern, { limit }).statement);
       latencies.push(Number(process.hrtime.bigint() - t0) / 1e6);
     }
   }));
@@ -144,9 +148,11 @@ server.kill('SIGTERM');
 await exited;
 
 const direct = new pg.Pool({ connectionString: ctx.config.databaseUrl, max: CONNECTIONS });
-await runDirect(direct, listing.storeKey, 'lookup');
-const pgLookup = await runDirect(direct, listing.storeKey, 'lookup');
-const pgPattern = await runDirect(direct, listing.storeKey, 'pattern');
+await runDirect(direct, listing.storeKey, 'lookup', false);
+const pgLookup = await runDirect(direct, listing.storeKey, 'lookup', false);
+const pgPattern = await runDirect(direct, listing.storeKey, 'pattern', false);
+const pgLookupCoalesced = await runDirect(direct, listing.storeKey, 'lookup', true);
+const pgPatternCoalesced = await runDirect(direct, listing.storeKey, 'pattern', true);
 await direct.end();
 
 const { rows } = await ctx.pool.query<{ n: string }>(`SELECT coalesce(sum(count), 0) AS n FROM usage_counters WHERE api_key_id = $1`, [k.key.id]);
@@ -158,11 +164,12 @@ console.log('run                    req/s     p50 ms   p99 ms   requests   non-2
 for (const [name, r] of [['HTTP fact lookup', httpLookup], ['HTTP pattern query', httpPattern]] as const) {
   console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}   ${String(r.non2xx + r.errors).padStart(7)}   ${r.cpuPerRequest.toFixed(3)} (user ${r.cpuUser.toFixed(3)}, system ${r.cpuSystem.toFixed(3)})`);
 }
-for (const [name, r] of [['PostgreSQL lookup', pgLookup], ['PostgreSQL pattern', pgPattern]] as const) {
+for (const [name, r] of [['PostgreSQL lookup', pgLookup], ['PostgreSQL pattern', pgPattern], ['  coalesced lookup', pgLookupCoalesced], ['  coalesced pattern', pgPatternCoalesced]] as const) {
   console.log(`${name.padEnd(22)} ${f(r.rps).padStart(7)}   ${f(r.p50).padStart(6)}   ${f(r.p99).padStart(6)}   ${String(r.total).padStart(8)}`);
 }
 console.log(`Web-process CPU per answered request: lookups ${httpLookup.cpuPerRequest.toFixed(3)} ms, patterns ${httpPattern.cpuPerRequest.toFixed(3)} ms → about ${f(1000 / httpLookup.cpuPerRequest)} lookups/s per core of web process, PostgreSQL's own work not included`);
-console.log(`ratio HTTP/PostgreSQL: lookups ${(httpLookup.rps / pgLookup.rps).toFixed(2)}, patterns ${(httpPattern.rps / pgPattern.rps).toFixed(2)}   (target ≥ 0.5)`);
+console.log(`ratio HTTP/PostgreSQL (one statement per query): lookups ${(httpLookup.rps / pgLookup.rps).toFixed(2)}, patterns ${(httpPattern.rps / pgPattern.rps).toFixed(2)}   (target ≥ 0.5)`);
+console.log(`ratio HTTP/PostgreSQL (the API's coalesced statements, as the API sends them): lookups ${(httpLookup.rps / pgLookupCoalesced.rps).toFixed(2)}, patterns ${(httpPattern.rps / pgPatternCoalesced.rps).toFixed(2)}`);
 console.log(`targets: ≥ 3000 req/s → lookups ${httpLookup.rps >= 3000 ? 'met' : 'NOT met'}, patterns ${httpPattern.rps >= 3000 ? 'met' : 'NOT met'}; p99 ≤ 25 ms → lookups ${httpLookup.p99 <= 25 ? 'met' : 'NOT met'}, patterns ${httpPattern.p99 <= 25 ? 'met' : 'NOT met'}`);
 // autocannon stops each run with up to one request per connection still in flight: the server answers (and counts) those too.
 const received = warm.requests.total + httpLookup.total + httpPattern.total;

@@ -1,0 +1,119 @@
+// Fact lookups coalesced per (version, pattern shape): the lookups that arrive within one turn of the event loop are
+// sent as ONE statement over unnest() arrays, flushed by setImmediate (after the poll phase has read every request that
+// was waiting). Each caller gets its own page, exactly what lookupFacts (server/services/factStore.ts) would return for
+// it; nothing is cached or shared between requests. This is the usual request coalescing ("micro-batching") of
+// concurrent small reads: it saves the per-statement cost on both ends of the connection — one wire round trip, one
+// executor start-up and one result set per batch instead of per lookup.
+import type pg from 'pg';
+import {
+  decodeCursor, factsTable, MAX_PAGE_SIZE, ORDERS, orderFor, selectList, termsTable, toPage,
+  type FactPage, type FactPattern, type FactRowOut, type Position,
+} from './factStore.js';
+
+/** Most lookups per statement (larger batches are split). */
+export const MAX_BATCH = 128;
+
+const NAMES = { s: 'subject', p: 'predicate', o: 'object' } as const;
+
+interface Pending { pattern: FactPattern; after: [number, number, number] | null; limit: number; resolve: (page: FactPage) => void; reject: (error: unknown) => void }
+interface Shape { storeKey: number; bound: Position[]; cursor: boolean; order: 'spo' | 'pos' | 'osp' }
+
+/**
+ * The statement for a batch of one shape. Row i of the arrays (WITH ORDINALITY) is lookup i: its bound terms, its
+ * cursor's three ids if it has one, and its limit + 1. For each row a LATERAL sub-query does what lookupFacts's own
+ * statement does — resolve the bound terms by the dictionary's hash index, walk the fact index from the cursor in
+ * order, stop at the limit, read the unbound terms by id — so the answers are the same; ORDER BY restores each
+ * lookup's order. Named per (version, shape), so each pooled connection plans it once.
+ */
+export function batchStatement(shape: Shape, pending: readonly Pending[]): pg.QueryConfig {
+  const f = factsTable(shape.storeKey), t = termsTable(shape.storeKey), cols = ORDERS[shape.order]!;
+  const arrays: unknown[][] = [], types: string[] = [], names: string[] = [], where: string[] = [];
+  for (const pos of shape.bound) {
+    arrays.push(pending.map((x) => x.pattern[NAMES[pos]]));
+    types.push('text[]');
+    names.push(`b_${pos}`);
+    where.push(`f.${pos} = (SELECT id FROM ${t} WHERE term = q.b_${pos})`);
+  }
+  if (shape.cursor) {
+    for (let c = 0; c < 3; c++) {
+      arrays.push(pending.map((x) => x.after![c]));
+      types.push('int[]');
+      names.push(`c${c}`);
+    }
+    where.push(`(f.${cols[0]}, f.${cols[1]}, f.${cols[2]}) > (q.c0, q.c1, q.c2)`);
+  }
+  arrays.push(pending.map((x) => x.limit + 1));
+  types.push('int[]');
+  names.push('lim');
+  const pattern = Object.fromEntries(shape.bound.map((pos) => [NAMES[pos], ''])) as FactPattern;
+  const text = `SELECT q.i::int AS i, r.* FROM unnest(${types.map((ty, n) => `$${n + 1}::${ty}`).join(', ')}) WITH ORDINALITY AS q(${names.join(', ')}, i)
+    CROSS JOIN LATERAL (SELECT ${selectList(shape.storeKey, pattern).join(', ')} FROM ${f} f
+      ${where.length ? 'WHERE ' + where.join(' AND ') : ''}
+      ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]} LIMIT q.lim) r
+    ORDER BY q.i, r.${cols[0]}, r.${cols[1]}, r.${cols[2]}`;
+  const key = `${shape.bound.join('')}${shape.cursor ? 'c' : ''}`;
+  return { name: `thence-facts-batch-${shape.storeKey}-${key || 'all'}`, text, values: arrays };
+}
+
+export class FactLookupBatcher {
+  private readonly queues = new Map<string, { shape: Shape; pending: Pending[] }>();
+  private scheduled = false;
+  private readonly flushAll = () => {
+    this.scheduled = false;
+    const queues = [...this.queues.values()];
+    this.queues.clear();
+    for (const { shape, pending } of queues) {
+      for (let i = 0; i < pending.length; i += MAX_BATCH) this.send(shape, pending.slice(i, i + MAX_BATCH));
+    }
+  };
+
+  constructor(private readonly pool: pg.Pool | pg.PoolClient) {}
+
+  /** The same page as lookupFacts(pool, storeKey, pattern, page), answered with the other lookups of this turn. */
+  lookup(storeKey: number, pattern: FactPattern, page: { limit: number; cursor?: string | null }): Promise<FactPage> {
+    return new Promise((resolve, reject) => {
+      const limit = Math.max(1, Math.min(MAX_PAGE_SIZE, Math.floor(page.limit) || 1));
+      const order = orderFor(pattern);
+      const after = page.cursor ? decodeCursor(page.cursor, order) : null; // InvalidCursorError rejects this lookup only
+      const bound = (['s', 'p', 'o'] as const).filter((pos) => pattern[NAMES[pos]] !== undefined);
+      const key = `${storeKey}:${bound.join('')}:${after ? 'c' : ''}`;
+      let queue = this.queues.get(key);
+      if (!queue) this.queues.set(key, (queue = { shape: { storeKey, bound, cursor: after !== null, order }, pending: [] }));
+      queue.pending.push({ pattern, after, limit, resolve, reject });
+      if (!this.scheduled) {
+        this.scheduled = true;
+        setImmediate(this.flushAll);
+      }
+    });
+  }
+
+  private send(shape: Shape, pending: Pending[]): void {
+    this.pool.query<FactRowOut & { i: number }>(batchStatement(shape, pending)).then(
+      ({ rows }) => {
+        // Rows come ordered by lookup: cut them into one run per lookup.
+        let at = 0;
+        for (let n = 0; n < pending.length; n++) {
+          let end = at;
+          while (end < rows.length && rows[end].i === n + 1) end++;
+          const p = pending[n];
+          p.resolve(toPage(rows.slice(at, end), p.pattern, shape.order, p.limit));
+          at = end;
+        }
+      },
+      (error: { code?: string }) => {
+        // A version whose tables are gone (deleted, not ready) has no facts, as in lookupFacts.
+        if (error.code === '42P01') for (const p of pending) p.resolve({ facts: [], nextCursor: null });
+        else for (const p of pending) p.reject(error);
+      },
+    );
+  }
+}
+
+const batchers = new WeakMap<object, FactLookupBatcher>();
+
+/** The batcher of a pool (one per pool, so every request of the process shares the coalescing). */
+export function factLookupBatcher(pool: pg.Pool | pg.PoolClient): FactLookupBatcher {
+  let b = batchers.get(pool);
+  if (!b) batchers.set(pool, (b = new FactLookupBatcher(pool)));
+  return b;
+}
