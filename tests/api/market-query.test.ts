@@ -233,6 +233,33 @@ describe('GET /api/v1/openapi.json', () => {
     const res = await get(`/api/v1/kbs/${listing.slug}/facts?limit=1`).set('Origin', 'https://app.example.test').expect(200);
     expect(res.headers['access-control-expose-headers']).toMatch(/RateLimit/);
   });
+  it('sends the security headers of a JSON API on answers, refusals and the OpenAPI document, and no cookie', async () => {
+    // Checks, each from its standard: CORS `Access-Control-Allow-Origin: *` (WHATWG Fetch, "CORS protocol"); `nosniff`
+    // (WHATWG Fetch, "X-Content-Type-Options" header); `default-src 'none'` and `frame-ancestors 'none'` (W3C CSP Level 3,
+    // §6.1.1 and §6.4.2); `no-referrer` (W3C Referrer Policy §3); that a JSON API sends these is common practice (from
+    // memory: OWASP REST Security Cheat Sheet, "Security headers").
+    const answers = [
+      await get(`/api/v1/kbs/${listing.slug}/facts?limit=1`).expect(200),
+      await get(`/api/v1/kbs/${listing.slug}/facts?subject=_:r1&predicate=${encodeURIComponent(`${FOAF}name`)}&object=${encodeURIComponent('"Alice"')}`).expect(200),
+      await get(`/api/v1/kbs/${listing.slug}/facts?limit=0`).expect(400),
+      await supertest(t.app).get(`/api/v1/kbs/${listing.slug}/facts`).expect(401),
+      await get(`/api/v1/kbs/${other.slug}/facts`).expect(403),
+      await supertest(t.app).get('/api/v1/openapi.json').expect(200),
+      await supertest(t.app).get('/api/v1/nothing').expect(404),
+    ];
+    for (const res of answers) {
+      const where = `${res.status} ${res.req.path}`;
+      expect(res.headers['access-control-allow-origin'], where).toBe('*');
+      expect(res.headers['x-content-type-options'], where).toBe('nosniff');
+      const csp = (res.headers['content-security-policy'] as string).split(';').map((d) => d.trim());
+      expect(csp, where).toContain("default-src 'none'");
+      expect(csp, where).toContain("frame-ancestors 'none'");
+      expect(res.headers['referrer-policy'], where).toBe('no-referrer');
+      expect(res.headers['content-type'], where).toMatch(/^application\/json/);
+      expect(res.headers['set-cookie'], where).toBeUndefined();
+    }
+    expect(answers[1]!.body.entailed).toBe(true);
+  });
   it('unknown /api/v1 paths answer JSON 404', async () => {
     const res = await supertest(t.app).get('/api/v1/nothing').expect(404);
     expect(res.body.error.code).toBe('not_found');
