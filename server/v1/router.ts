@@ -1,6 +1,6 @@
 // The key-authenticated query API. Mounted first (before helmet, sessions and the JSON parser): a query needs neither
 // a cookie session nor CSRF, and skipping them keeps the hot path short. Bodies are parsed here per route.
-import express, { Router } from 'express';
+import express, { Router, type RequestHandler } from 'express';
 import type { AppContext } from '../context.js';
 import { HttpError } from '../http/errors.js';
 import { apiRateLimiter } from '../services/rateLimit.js';
@@ -16,6 +16,29 @@ const API_HEADERS = [
   'Content-Security-Policy', "default-src 'none'; frame-ancestors 'none'",
   'Referrer-Policy', 'no-referrer',
 ] as const;
+
+/**
+ * The steps of a route as one handler: each step gets the same (req, res, next) contract as under the router (next()
+ * runs the following step, next(error) leaves for the error handler, a rejected promise counts as next(error)), without
+ * a router layer, path match and dispatch per step — the steps run on every query.
+ */
+export function chain(...steps: RequestHandler[]): RequestHandler {
+  return (req, res, done) => {
+    let at = 0;
+    const next = (error?: unknown): void => {
+      if (error) return done(error); // as the router: any truthy value, 'route' and 'router' included, leaves the chain
+      const step = steps[at++];
+      if (!step) return done();
+      try {
+        const result = step(req, res, next) as unknown;
+        if (result instanceof Promise) result.catch(done);
+      } catch (thrown) {
+        done(thrown);
+      }
+    };
+    next();
+  };
+}
 
 export function v1Router(ctx: AppContext): Router {
   const router = Router();
@@ -38,9 +61,9 @@ export function v1Router(ctx: AppContext): Router {
   });
   const pipeline = [authenticateKey(ctx), resolveListing(ctx), apiRateLimiter(ctx.pool), enforceQuota(ctx)];
   const bodies = [express.text({ type: 'application/sparql-query', limit: '64kb' }), express.urlencoded({ extended: false, limit: '64kb' })];
-  router.get('/kbs/:slug/facts', ...pipeline, factsHandler(ctx));
-  router.get('/kbs/:slug/sparql', ...pipeline, sparqlHandler(ctx));
-  router.post('/kbs/:slug/sparql', ...bodies, ...pipeline, sparqlHandler(ctx));
+  router.get('/kbs/:slug/facts', chain(...pipeline, factsHandler(ctx)));
+  router.get('/kbs/:slug/sparql', chain(...pipeline, sparqlHandler(ctx)));
+  router.post('/kbs/:slug/sparql', chain(...bodies, ...pipeline, sparqlHandler(ctx)));
   router.use((req, _res, next) => next(new HttpError(req.method === 'GET' || req.method === 'POST' ? 404 : 405, `No route ${req.method} /api/v1${req.path}. See /api/v1/openapi.json.`)));
   return router;
 }
