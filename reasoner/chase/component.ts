@@ -4,7 +4,8 @@
 import { Chase } from './engine.js';
 import type { Guard } from './guard.js';
 import type { CompiledProgram } from './program.js';
-import { search } from './search.js';
+import { KeptSearch, leave, search } from './search.js';
+import { GroupConstraint, holdsKey, keyParser, type ParsedKey } from './candidates.js';
 import { DISTINCT_ID, TOP_ID } from './store.js';
 import type { ClashReport, EntailStats } from './entail.js';
 
@@ -121,17 +122,8 @@ function factsOfKeys(keys: Iterable<string>): NamedFacts {
   return out;
 }
 
-/** If the fact with this key holds in the chase's current branch, its dependency set; else -1. */
-function holdsKey(chase: Chase, key: string): number {
-  const st = chase.store, deps = chase.deps, nums = key.slice(1).split(' ').map(Number);
-  const a = st.find(nums[0]!);
-  if (key[0] === 's') return a === st.find(nums[1]!) ? deps.union(chase.chainDep(nums[0]!), chase.chainDep(nums[1]!)) : -1;
-  const e = st.find(nums[1]!);
-  if (key[0] === 'u') { const r = st.unaryRow(nums[0]!, e); return r < 0 ? -1 : deps.union(st.unaryDep[r]!, chase.chainDep(nums[1]!)); }
-  const o = st.find(nums[2]!);
-  const r = st.binaryRow(nums[0]!, e, o);
-  return r < 0 ? -1 : deps.union(deps.union(st.binaryDep[r]!, chase.chainDep(nums[1]!)), chase.chainDep(nums[2]!));
-}
+/** Candidates per group of the first pass (a group that fails is halved; below 8 they go one by one). */
+const GROUP = 512;
 
 /**
  * Chases one component. A model reached without any choice is the only one (always so for Horn programs).
@@ -150,10 +142,11 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   let candidates: string[] | null = null;
   let only = false;
   const onClash = (c: Chase) => { if (firstClash === undefined) firstClash = clashReport(c); };
+  const parse = keyParser();
   let models = search(chase, guard, {
     onRoot: (c) => { certain = keyOf(namedFacts(c)); },
     onClash,
-    violated: plain ? (c) => allHold(c, candidates) : undefined,
+    violated: plain ? (c) => allHold(c, candidates, parse) : undefined,
     onModel: (c, choices) => {
       if (choices === 0 && candidates === null) { only = true; return true; }
       const model = keyOf(namedFacts(c));
@@ -170,20 +163,47 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   if (only) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { live: chase }; }
   const entailed: string[] = [];
   if (!plain) {
-    let open = candidates ?? [], reverse = true;
+    let open: string[] = candidates ?? [], reverse = true, keptReverse = false;
+    // The last model found stays in the store: the next candidate is first looked for from there, changing only the
+    // choices it depends on (in a large component most candidates are decided by a few local choices, and a search
+    // from the root would replay all the others). Finding no model from there proves nothing: then search afresh.
+    const kept = new KeptSearch();
+    const find = (bad: (c: Chase) => number, budget?: number): Set<string> | null => {
+      let model: Set<string> | null = null;
+      const hooks = { violated: bad, onModel: (c: Chase) => { model = keyOf(namedFacts(c)); return true; } };
+      const resumed = kept.active;
+      if (resumed) models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget });
+      if (model === null && !(resumed && budget !== undefined)) {
+        leave(chase, kept);
+        // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
+        // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
+        keptReverse = reverse && program.blocking;
+        models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget });
+        reverse = !reverse;
+      }
+      return model;
+    };
+    // First, in one search, a model where none of a group of candidates holds (checked after every choice, so each
+    // is mended where it arises): when the candidates are decided by independent local choices, this settles them all
+    // at once. A group that fails (or outgrows its budget) is halved; single candidates are searched one by one.
+    const groups: string[][] = [];
+    for (let i = 0; i < open.length; i += GROUP) groups.unshift(open.slice(i, i + GROUP));
+    while (groups.length > 0) {
+      const group = groups.pop()!.filter((k) => open.includes(k));
+      if (group.length < 8) continue;
+      const constraint = new GroupConstraint(group.map(parse), named);
+      const model = find((c) => constraint.check(c), 4 * (chase.pending.length + 100) + 20 * group.length);
+      if (model !== null) { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
+      else groups.push(group.slice(0, group.length >> 1), group.slice(group.length >> 1));
+    }
     while (open.length > 0) {
       const f = open.pop()!;
-      let model: Set<string> | null = null;
-      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not on
-      // a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
-      models += search(chase, guard, {
-        violated: (c) => holdsKey(c, f),
-        onModel: (c) => { model = keyOf(namedFacts(c)); return true; },
-      }, { reverse: reverse && program.blocking });
-      reverse = !reverse;
+      const key = parse(f);
+      const model = find((c) => holdsKey(c, key));
       if (model === null) entailed.push(f);
       else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
     }
+    leave(chase, kept);
   } else entailed.push(...(candidates ?? []));
   stats.models += models;
   stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength);
@@ -191,8 +211,8 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
 }
 
 /** The plain path's constraint: -1 unless every remaining candidate holds (then -2: taken to depend on every choice). */
-function allHold(chase: Chase, candidates: readonly string[] | null): number {
+function allHold(chase: Chase, candidates: readonly string[] | null, parse: (key: string) => ParsedKey): number {
   if (candidates === null) return -1;
-  for (const k of candidates) if (holdsKey(chase, k) < 0) return -1;
+  for (const k of candidates) if (holdsKey(chase, parse(k)) < 0) return -1;
   return -2;
 }

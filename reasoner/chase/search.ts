@@ -24,6 +24,32 @@ export interface SearchOptions {
   readonly backjump?: boolean;
   /** Try the disjuncts of each choice last to first (a search then tends to find a model unlike the default one). */
   readonly reverse?: boolean;
+  /**
+   * Stay in the model when onModel stops the search, and record the choices in this object, so that a later search
+   * can start from that model instead of the root (`resume`). The caller ends it with `leave`.
+   */
+  readonly keep?: KeptSearch;
+  /**
+   * Start from a model kept by an earlier search (same `reverse`): the new hooks' constraint is checked there first
+   * and the search backjumps only as far as it depends. The earlier search's constraint is dropped, so the disjuncts
+   * it ruled out are not tried again: a model found is a model, but finding none proves nothing (search afresh).
+   */
+  readonly resume?: KeptSearch;
+  /** Give up (as if no model existed, so proving nothing) after this many branches. */
+  readonly budget?: number;
+}
+
+/** The choice stack of a model a search stopped in (see `keep`). */
+export class KeptSearch {
+  stack: ChoicePoint[] = [];
+  get active(): boolean { return this.stack.length > 0; }
+}
+
+/** Undoes a kept model back to the state before its first choice. */
+export function leave(chase: Chase, kept: KeptSearch): void {
+  if (kept.stack.length > 0) chase.undo(kept.stack[0]!.mark);
+  kept.stack = [];
+  chase.level = 0;
 }
 
 interface ChoicePoint {
@@ -67,10 +93,13 @@ function nextChoice(chase: Chase): number {
 export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: SearchOptions = {}): number {
   const backjump = options.backjump ?? true;
   const deps = chase.deps;
-  const stack: ChoicePoint[] = [];
-  let models = 0, rootSeen = false;
-  chase.level = 0;
-  let ok = run(chase), closedBy = 0;
+  const resumed = options.resume?.active === true;
+  const stack: ChoicePoint[] = resumed ? options.resume!.stack : [];
+  if (options.resume) options.resume.stack = [];
+  for (const top of stack) top.failDep = 0;
+  let models = 0, rootSeen = resumed;
+  chase.level = stack.length;
+  let ok = resumed || run(chase), closedBy = 0;
   const finish = () => { if (stack.length > 0) chase.undo(stack[0]!.mark); chase.level = 0; return models; };
   const apply = (top: ChoicePoint): boolean => {
     guard.branch();
@@ -79,7 +108,9 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     const d = options.reverse ? top.count - 1 - top.next : top.next;
     return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
   };
+  const lastBranch = options.budget === undefined ? Infinity : guard.branches + options.budget;
   for (;;) {
+    if (guard.branches > lastBranch) return finish();
     if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
@@ -87,7 +118,10 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
       if (choice < 0 && !chase.program.blocking && chase.generate() > 0) { ok = run(chase); continue; }
       if (choice < 0) {
         models++;
-        if (hooks.onModel(chase, stack.length)) return finish();
+        if (hooks.onModel(chase, stack.length)) {
+          if (options.keep && stack.length > 0) { options.keep.stack = stack; return models; }
+          return finish();
+        }
         ok = false;
         closedBy = -1; // a model closed by the caller depends on every choice
       } else {

@@ -217,6 +217,10 @@ export class FactStore {
     this.mergeDep[from] = dep;
   }
 
+  /** Length of the merge trail (two entries per `setRep`); `mergedElement(i)` is the element of entry i (i even). */
+  get mergeTrailLength(): number { return this.mergeTrail.length; }
+  mergedElement(i: number): number { return this.mergeTrail[i]!; }
+
   // ---- trail ----
 
   mark(): StoreMark {
