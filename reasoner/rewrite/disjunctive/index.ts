@@ -73,32 +73,33 @@ export function rulesOfAxiom(axiom: NormalAxiom): Rule[] {
 }
 
 /**
- * Every class and role name the axioms mention, with the user vocabulary; and the names to guess at created elements:
- * those with a positive occurrence (a head: they can arrive at an element later) and a negative one (a body: they
- * change what happens there). A name with no positive occurrence is never true at a created element (absent, no guess
- * needed); one with no negative occurrence changes nothing where it holds (a model stays a model when it is added), so
- * neither needs a guess nor a place in the type comparison.
+ * Every class and role name the axioms mention, with the user vocabulary; and the names to guess at created elements.
+ * Classes: those with a positive occurrence (a head: they can arrive at an element later) and a negative one (a body:
+ * they change what happens there). A class with no positive occurrence is never true at a created element (absent, no
+ * guess needed); one with no negative occurrence changes nothing where it holds (a model stays a model when it is
+ * added), so neither needs a guess nor a place in the type comparison. Roles: all of them — leaving out a role with no
+ * negative occurrence lost models in a differential sweep (README, "The published rewriting"), so roles are not pruned.
  */
 export function signature(normal: NormalOntology): { classes: string[]; roles: string[]; guessedClasses: string[]; guessedRoles: string[] } {
   const classes = new Set<string>(normal.classes), roles = new Set<string>(normal.properties);
-  const pos = new Set<string>(), neg = new Set<string>(), posRole = new Set<string>(), negRole = new Set<string>();
+  const pos = new Set<string>(), neg = new Set<string>();
   const c = (name: string, into: Set<string>) => { classes.add(name); into.add(name); };
-  const r = (p: PropertyRef, into: Set<string>) => { roles.add(p.name); into.add(p.name); };
+  const r = (p: PropertyRef) => { roles.add(p.name); };
   for (const a of normal.axioms) {
     switch (a.kind) {
       case 'subsumption': a.body.forEach((x) => c(x, neg)); a.head.forEach((x) => c(x, pos)); break;
-      case 'exists': case 'atLeast': c(a.sub, neg); r(a.property, posRole); if (a.filler !== null) c(a.filler, pos); break;
-      case 'forall': c(a.sub, neg); r(a.property, negRole); if (a.filler !== null) c(a.filler, pos); break;
-      case 'atMost': c(a.sub, neg); r(a.property, negRole); if (a.filler !== null) c(a.filler, neg); break;
-      case 'propertyInclusion': r(a.sub, negRole); r(a.sup, posRole); break;
-      case 'propertyDisjointness': r(a.properties[0], negRole); r(a.properties[1], negRole); break;
+      case 'exists': case 'atLeast': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, pos); break;
+      case 'forall': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, pos); break;
+      case 'atMost': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, neg); break;
+      case 'propertyInclusion': r(a.sub); r(a.sup); break;
+      case 'propertyDisjointness': r(a.properties[0]); r(a.properties[1]); break;
     }
   }
   return {
     classes: [...classes],
     roles: [...roles],
     guessedClasses: [...classes].filter((x) => x !== FRESH_TOP && pos.has(x) && neg.has(x)),
-    guessedRoles: [...roles].filter((x) => posRole.has(x) && negRole.has(x)),
+    guessedRoles: [...roles],
   };
 }
 
