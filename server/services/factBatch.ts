@@ -10,8 +10,9 @@ import {
   type FactPage, type FactPattern, type FactRowOut, type Position,
 } from './factStore.js';
 
-/** Most lookups per statement (larger batches are split). */
+/** Most lookups per statement, and most rows one statement may return (the sum of its lookups' limits + 1); larger batches are split. */
 export const MAX_BATCH = 128;
+export const MAX_BATCH_ROWS = 10_000;
 
 const NAMES = { s: 'subject', p: 'predicate', o: 'object' } as const;
 
@@ -63,7 +64,17 @@ export class FactLookupBatcher {
     const queues = [...this.queues.values()];
     this.queues.clear();
     for (const { shape, pending } of queues) {
-      for (let i = 0; i < pending.length; i += MAX_BATCH) this.send(shape, pending.slice(i, i + MAX_BATCH));
+      let from = 0, rows = 0;
+      for (let i = 0; i < pending.length; i++) {
+        const need = pending[i]!.limit + 1;
+        if (i > from && (i - from === MAX_BATCH || rows + need > MAX_BATCH_ROWS)) {
+          this.send(shape, pending.slice(from, i));
+          from = i;
+          rows = 0;
+        }
+        rows += need;
+      }
+      this.send(shape, pending.slice(from));
     }
   };
 

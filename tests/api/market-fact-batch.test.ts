@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import pg from 'pg';
 import { config } from '../../server/config.js';
-import { FactLookupBatcher, MAX_BATCH } from '../../server/services/factBatch.js';
+import { FactLookupBatcher, MAX_BATCH, MAX_BATCH_ROWS } from '../../server/services/factBatch.js';
 import { dropFactTables, FactLoader, InvalidCursorError, lookupFacts, type FactPattern, type FactPage, type StoredFact } from '../../server/services/factStore.js';
 
 const RDF_TYPE = 'http://www.w3.org/1999/02/22-rdf-syntax-ns#type';
@@ -100,6 +100,16 @@ describe('coalesced lookups', () => {
     whole.forEach((f, i) => expect(answered[i]!.facts).toEqual([f]));
     const more = await Promise.all(subjects.slice(0, 10).map((s) => lookupFacts(pool, storeKey, { subject: s }, { limit: 2 })));
     expect(answered.slice(whole.length)).toEqual(more);
+  });
+
+  it('split the lookups of a turn so that no statement may return more than MAX_BATCH_ROWS rows', async () => {
+    const { batcher, statements } = countingBatcher();
+    // Each lookup may return limit + 1 rows: 12 × 1001 > MAX_BATCH_ROWS (10,000) ≥ 9 × 1001, so two statements.
+    expect(MAX_BATCH_ROWS).toBe(10_000);
+    const pages = await Promise.all(Array.from({ length: 12 }, () => batcher.lookup(storeKey, {}, { limit: 1000 })));
+    expect(statements()).toBe(2);
+    const alone = await lookupFacts(pool, storeKey, {}, { limit: 1000 });
+    for (const page of pages) expect(page).toEqual(alone);
   });
 
   it('reject a cursor it did not hand out for that lookup only', async () => {
