@@ -163,51 +163,79 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   if (only) { stats.models += models; stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength); return { live: chase }; }
   const entailed: string[] = [];
   if (!plain) {
-    let open: string[] = candidates ?? [], reverse = true, keptReverse = false;
-    // The last model found stays in the store: the next candidate is first looked for from there, changing only the
-    // choices it depends on (in a large component most candidates are decided by a few local choices, and a search
-    // from the root would replay all the others). Finding no model from there proves nothing: then search afresh.
+    const open = new Set<string>(candidates ?? []);
+    let reverse = true, keptReverse = false;
+    // The state a search ends in stays in the store (a model, or the choices below the level a proof exhausted): the
+    // next search starts there, changing only the choices its constraint depends on (in a large component most
+    // candidates are decided by a few local choices, and a search from the root would replay all the others).
     const kept = new KeptSearch();
-    const find = (bad: (c: Chase) => number, budget?: number): Set<string> | null => {
+    // `partial`: a search out of budget keeps its earlier choices (one by one); else it goes back to the root (groups:
+    // the state a group ran out of budget in is deep in choices made for that group's constraint, a poor start).
+    const find = (bad: (c: Chase) => number, budget: number | undefined, partial: boolean): Set<string> | null => {
       let model: Set<string> | null = null;
       const hooks = { violated: bad, onModel: (c: Chase) => { model = keyOf(namedFacts(c)); return true; } };
-      const resumed = kept.active;
-      if (resumed) models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget });
-      if (model === null && !(resumed && budget !== undefined)) {
-        leave(chase, kept);
-        // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
-        // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
-        keptReverse = reverse && program.blocking;
-        models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget });
-        reverse = !reverse;
+      if (kept.active) {
+        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial });
+        return model;
       }
+      leave(chase, kept);
+      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
+      // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
+      keptReverse = reverse && program.blocking;
+      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial });
+      reverse = !reverse;
       return model;
     };
-    // First, in one search, a model where none of a group of candidates holds (checked after every choice, so each
-    // is mended where it arises): when the candidates are decided by independent local choices, this settles them all
-    // at once. A group that fails (or outgrows its budget) is halved; single candidates are searched one by one.
-    const groups: string[][] = [];
-    for (let i = 0; i < open.length; i += GROUP) groups.unshift(open.slice(i, i + GROUP));
-    while (groups.length > 0) {
-      const group = groups.pop()!.filter((k) => open.includes(k));
-      if (group.length < 8) continue;
-      const constraint = new GroupConstraint(group.map(parse), named);
-      const model = find((c) => constraint.check(c), 4 * (chase.pending.length + 100) + 20 * group.length);
-      if (model !== null) { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
-      else groups.push(group.slice(0, group.length >> 1), group.slice(group.length >> 1));
-    }
-    while (open.length > 0) {
-      const f = open.pop()!;
-      const key = parse(f);
-      const model = find((c) => holdsKey(c, key));
-      if (model === null) entailed.push(f);
-      else { const m: Set<string> = model; open = open.filter((k) => m.has(k)); }
-    }
+    const keepOnly = (m: Set<string>) => { for (const k of open) if (!m.has(k)) open.delete(k); };
+    // Groups: one search for a model where no candidate of the group holds (checked after every choice, so each is
+    // mended where it arises): when the candidates are decided by independent local choices, this settles them all at
+    // once. A group that fails (or outgrows its budget) is halved; below 8 candidates they are left to the passes.
+    const settleGroups = (keys: readonly string[]) => {
+      const groups: string[][] = [];
+      for (let i = 0; i < keys.length; i += GROUP) groups.unshift(keys.slice(i, i + GROUP));
+      while (groups.length > 0) {
+        const group = groups.pop()!.filter((k) => open.has(k));
+        if (group.length < 8) continue;
+        const constraint = new GroupConstraint(group.map(parse), named);
+        const model = find((c) => constraint.check(c), 4 * (chase.pending.length + 100) + 20 * group.length, false);
+        if (model !== null) keepOnly(model);
+        else groups.push(group.slice(0, group.length >> 1), group.slice(group.length >> 1));
+      }
+    };
+    // One by one, newest dependency first: a proof backjumps only to the choices its fact depends on and keeps the
+    // choices below, so taking the candidates that depend on late choices first keeps each proof short. With a
+    // budget, a candidate whose search outgrows it is returned for later (usually one that a model lacks, which costs
+    // redoing the choices above its own).
+    const oneByOne = (budget?: number): string[] => {
+      const order = [...open].map((k) => ({ k, level: kept.active ? newestLevel(chase, holdsKey(chase, parse(k))) : 0 }));
+      order.sort((x, y) => x.level - y.level);
+      const left: string[] = [];
+      while (order.length > 0) {
+        const f = order.pop()!.k;
+        if (!open.has(f)) continue;
+        const key = parse(f);
+        const before = guard.branches;
+        const model = find((c) => holdsKey(c, key), budget, true);
+        if (model !== null) { keepOnly(model); continue; }
+        if (budget !== undefined && guard.branches - before > budget) { left.push(f); continue; }
+        open.delete(f);
+        entailed.push(f);
+      }
+      return left;
+    };
+    settleGroups([...open]);
+    settleGroups(oneByOne(32));
+    oneByOne();
     leave(chase, kept);
   } else entailed.push(...(candidates ?? []));
   stats.models += models;
   stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength);
   return { facts: factsOfKeys([...certain, ...entailed]) };
+}
+
+/** The newest choice level in a dependency set (0 for none; -1 sets, unknown, count as 0). */
+function newestLevel(chase: Chase, dep: number): number {
+  return dep > 0 ? chase.deps.newest(dep) : 0;
 }
 
 /** The plain path's constraint: -1 unless every remaining candidate holds (then -2: taken to depend on every choice). */

@@ -30,13 +30,21 @@ export interface SearchOptions {
    */
   readonly keep?: KeptSearch;
   /**
-   * Start from a model kept by an earlier search (same `reverse`): the new hooks' constraint is checked there first
-   * and the search backjumps only as far as it depends. The earlier search's constraint is dropped, so the disjuncts
-   * it ruled out are not tried again: a model found is a model, but finding none proves nothing (search afresh).
+   * Start from a state kept by an earlier search (same `reverse`): a model, or the choices below a level that search
+   * exhausted. The new hooks' constraint is checked there first and the search backjumps only as far as it depends.
+   * Each kept choice point then tries its disjuncts in turn from the one it holds, the ones the earlier search had
+   * already left included, so every disjunct is tried under the new constraint and finding no model is as
+   * conclusive as from the root.
    */
   readonly resume?: KeptSearch;
-  /** Give up (as if no model existed, so proving nothing) after this many branches. */
+  /** Give up after this many branches (returning no model, which then proves nothing). */
   readonly budget?: number;
+  /**
+   * With `keep`, a search that ends without a model by a proof (the constraint fails whatever the choices) keeps the
+   * choices below the last level undone — a consistent state of earlier choices — for a later search to resume
+   * from; with `keepPartial` also one that runs out of budget (it keeps the choices below its newest level).
+   */
+  readonly keepPartial?: boolean;
 }
 
 /** The choice stack of a model a search stopped in (see `keep`). */
@@ -56,7 +64,9 @@ interface ChoicePoint {
   readonly mark: ReturnType<Chase['mark']>;
   readonly instance: number;
   readonly instanceDep: number;
-  next: number;
+  /** The disjunct tried first in this search, and how many have been tried since (in turn, from `start`). */
+  start: number;
+  tried: number;
   readonly count: number;
   /** Union of the dependency sets of the clashes of the disjuncts tried so far, without this level. */
   failDep: number;
@@ -96,7 +106,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
   const resumed = options.resume?.active === true;
   const stack: ChoicePoint[] = resumed ? options.resume!.stack : [];
   if (options.resume) options.resume.stack = [];
-  for (const top of stack) top.failDep = 0;
+  for (const top of stack) { top.start = (top.start + top.tried) % top.count; top.tried = 0; top.failDep = 0; }
   let models = 0, rootSeen = resumed;
   chase.level = stack.length;
   let ok = resumed || run(chase), closedBy = 0;
@@ -105,12 +115,20 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     guard.branch();
     const rule = chase.loadInstance(chase.pending, top.instance)!;
     chase.level = stack.length;
-    const d = options.reverse ? top.count - 1 - top.next : top.next;
+    const next = (top.start + top.tried) % top.count;
+    const d = options.reverse ? top.count - 1 - next : next;
     return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
   };
   const lastBranch = options.budget === undefined ? Infinity : guard.branches + options.budget;
   for (;;) {
-    if (guard.branches > lastBranch) return finish();
+    if (guard.branches > lastBranch) {
+      // Out of budget: with `keep`, the choices below the newest level stay (a consistent state) for a later search.
+      if (!options.keep || !options.keepPartial || stack.length === 0) return finish();
+      chase.undo(stack.pop()!.mark);
+      options.keep.stack = stack;
+      chase.level = 0;
+      return models;
+    }
     if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
@@ -127,22 +145,31 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
       } else {
         if (!rootSeen) { rootSeen = true; hooks.onRoot?.(chase); }
         const rule = chase.loadInstance(chase.pending, choice)!;
-        stack.push({ mark: chase.mark(), instance: choice, instanceDep: chase.instanceDep, next: 0, count: rule.head.length, failDep: 0 });
+        stack.push({ mark: chase.mark(), instance: choice, instanceDep: chase.instanceDep, start: 0, tried: 0, count: rule.head.length, failDep: 0 });
         ok = apply(stack[stack.length - 1]!);
         continue;
       }
     } else if (chase.clash !== null) hooks.onClash?.(chase);
     // Backjump: to the newest choice point the closing facts depend on (chronologically when not backjumping).
-    let dep = closedBy;
+    let dep = closedBy, undone = false;
     for (;;) {
       if (stack.length === 0) return finish();
       const level = !backjump || dep < 0 ? stack.length : deps.newest(dep);
-      if (level === 0) { return finish(); }  // the clash follows from the input alone: no branch can avoid it
+      if (level === 0) {
+        // The clash follows from the input alone: no branch can avoid it. With `keep`, the choices below the last
+        // level undone stay (a consistent state of the earlier choices) for a later search to resume from.
+        if (!options.keep) return finish();
+        if (!undone) chase.undo(stack.pop()!.mark);
+        options.keep.stack = stack;
+        chase.level = 0;
+        return models;
+      }
       stack.length = level;
       const top = stack[level - 1]!;
       top.failDep = dep < 0 || top.failDep < 0 ? -1 : deps.union(top.failDep, deps.below(dep, level));
       chase.undo(top.mark);
-      if (++top.next < top.count) { ok = apply(top); break; }
+      undone = true;
+      if (++top.tried < top.count) { ok = apply(top); break; }
       // Every disjunct failed: the failure depends on what the clashes depended on, and on the instance itself.
       dep = top.failDep < 0 ? -1 : deps.union(top.failDep, top.instanceDep);
       stack.pop();

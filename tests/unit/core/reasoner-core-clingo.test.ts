@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { aspProgram, clingoFacts, requireClingo } from '../../reference/asp-reference.js';
-import { describeKb, engineFacts, tinyKb, type KbShape } from './kb-tools.js';
+import { atMost, describeKb, engineFacts, only, role, sub, tinyKb, type KbShape } from './kb-tools.js';
 
 const sorted = (s: Set<string> | null) => (s === null ? 'inconsistent' : [...s].sort().join(' '));
 
@@ -83,6 +83,25 @@ describe('larger knowledge bases against clingo', () => {
     const kb = await named(10, 3, 30, 3, 21, 'catalogue');
     const reference = clingoFacts(aspProgram(kb, 3));
     expect(sorted(await engineFacts(kb))).toBe(sorted(reference));
+  }, 120_000);
+
+  // Reasoning by cases at every individual of one component (the pattern of the DL Handbook's Oedipus example, from
+  // memory, repeated): each T is S or W and both imply N; each H is St or Se and both imply Sh; what ends at a
+  // shelter is Safe; e functional on T. Most candidates are entailed, each proved by exhausting its choices — the
+  // search keeps the earlier choices between proofs (chase/search.ts, KeptSearch) instead of replaying them.
+  it('reasoning by cases at 60 trails and 10 huts in one component: same as clingo\'s cautious consequences', async () => {
+    const e = role('e');
+    const kb = {
+      axioms: [sub(['T'], ['S', 'W']), sub(['S'], ['N']), sub(['W'], ['N']), sub(['S', 'W'], []), sub(['H'], ['St', 'Se']), sub(['St'], ['Sh']), sub(['Se'], ['Sh']),
+        only('Sh', role('e', true), 'Safe'), atMost('T', 1, e, null)],
+      classFacts: [...Array.from({ length: 60 }, (_, i) => [i % 3 === 0 ? 'W' : 'T', `t${i}`] as [string, string]), ...Array.from({ length: 10 }, (_, j) => ['H', `h${j}`] as [string, string])],
+      propertyFacts: [...Array.from({ length: 60 }, (_, i) => ['e', `t${i}`, `h${i % 10}`] as [string, string, string]), ...Array.from({ length: 9 }, (_, j) => ['c', `h${j}`, `h${j + 1}`] as [string, string, string])],
+    };
+    const reference = clingoFacts(aspProgram(kb, 0));
+    expect(reference).not.toBeNull();
+    const ours = await engineFacts(kb);
+    expect(ours?.has('Safe(t7)')).toBe(true);
+    expect(sorted(ours)).toBe(sorted(reference));
   }, 120_000);
 
   // One supplier for all 30 assemblies: a single component of 121 individuals, whose hundreds of candidate facts
