@@ -91,8 +91,8 @@ export interface ReasonOptions {
    * How a Horn ontology is evaluated: 'datalog' (default) runs its Datalog rewriting (rewrite/horn, no anonymous
    * element); 'chase' runs the one-rule-per-axiom program with anonymous elements. Disjunctive ontologies always chase.
    * 'rewriting' (any ontology) runs the published rewriting (rewrite/disjunctive) by the plain restricted chase with
-   * dynamic blocking off — the reference the optimised path is tested against; slower, never the default, and known
-   * to miss models in rare cases (reasoner/README.md, "Known incompleteness").
+   * dynamic blocking off — the reference the optimised path is tested against; slower, never the default, its
+   * completeness not yet proven (reasoner/README.md, "A case found by a sweep").
    */
   readonly path?: 'datalog' | 'chase' | 'rewriting';
 }

@@ -3,6 +3,7 @@
 // depends on (backjumping, ibid. §5.1), trying its next disjunct; report every complete open branch.
 
 import type { Chase } from './engine.js';
+import { EQUAL } from './program.js';
 import type { Guard } from './guard.js';
 
 export interface SearchHooks {
@@ -83,9 +84,20 @@ function run(chase: Chase): boolean {
   }
 }
 
-/** Returns the first recorded disjunction that does not hold, or -1; advances the cursor over the held prefix. */
+/**
+ * Returns the first recorded disjunction that does not hold, or -1; advances the cursor over the held prefix. On a
+ * self-terminating program (blocking off) equality disjunctions (the ≤n rules) go first: merges are then decided
+ * before the merged elements' completion guesses and the copies those bring (README, "A case found by a sweep").
+ */
 function nextChoice(chase: Chase): number {
   const list = chase.pending;
+  if (!chase.program.blocking) {
+    for (let i = chase.pendingCursor; i < list.length; i++) {
+      const rule = chase.loadInstance(list, i);
+      if (rule === null || rule.head.length === 0 || rule.head[0]!.atoms[0]?.kind !== EQUAL) continue;
+      if (!chase.holds(rule)) return i;
+    }
+  }
   let prefix = true;
   for (let i = chase.pendingCursor; i < list.length; i++) {
     const rule = chase.loadInstance(list, i);
