@@ -8,16 +8,18 @@ import type { Chase } from './engine.js';
 /** A named fact: kind (0 unary, 1 binary, 2 same) and its numbers: (pred, e), (pred, s, o) or (a, b). */
 export type ParsedKey = readonly [kind: number, x: number, y: number, z: number];
 
-/** Parses fact keys ("u p e", "b p s o", "s a b"), each once. */
+/** Parses a fact key of component.ts ("u p e", "b p s o", "s a b"). */
+export function parseKey(key: string): ParsedKey {
+  const n = key.slice(1).split(' ').map(Number);
+  return [key[0] === 'u' ? 0 : key[0] === 'b' ? 1 : 2, n[0]!, n[1]!, n[2] ?? 0];
+}
+
+/** Parses fact keys, each once (the constraints check them after every choice). */
 export function keyParser(): (key: string) => ParsedKey {
   const cache = new Map<string, ParsedKey>();
   return (key) => {
     let p = cache.get(key);
-    if (p === undefined) {
-      const n = key.slice(1).split(' ').map(Number);
-      p = [key[0] === 'u' ? 0 : key[0] === 'b' ? 1 : 2, n[0]!, n[1]!, n[2] ?? 0];
-      cache.set(key, p);
-    }
+    if (p === undefined) cache.set(key, (p = parseKey(key)));
     return p;
   };
 }

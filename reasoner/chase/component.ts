@@ -5,7 +5,7 @@ import { Chase } from './engine.js';
 import type { Guard } from './guard.js';
 import type { CompiledProgram } from './program.js';
 import { KeptSearch, leave, search } from './search.js';
-import { GroupConstraint, holdsKey, keyParser, type ParsedKey } from './candidates.js';
+import { GroupConstraint, holdsKey, keyParser, parseKey, type ParsedKey } from './candidates.js';
 import { DISTINCT_ID, TOP_ID } from './store.js';
 import type { ClashReport, EntailStats } from './entail.js';
 
@@ -116,8 +116,8 @@ const keyOf = (f: NamedFacts) => {
 function factsOfKeys(keys: Iterable<string>): NamedFacts {
   const out: NamedFacts = { unary: [], binary: [], same: [] };
   for (const k of keys) {
-    const nums = k.slice(1).split(' ').map(Number);
-    (k[0] === 'u' ? out.unary : k[0] === 'b' ? out.binary : out.same).push(...nums);
+    const [kind, x, y, z] = parseKey(k);
+    if (kind === 0) out.unary.push(x, y); else if (kind === 1) out.binary.push(x, y, z); else out.same.push(x, y);
   }
   return out;
 }

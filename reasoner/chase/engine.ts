@@ -59,8 +59,6 @@ export class Chase {
   /** Dependency set of the row matched at each join step. */
   private readonly stepDep = new Int32Array(64);
   readonly deps = new DependencySets();
-  /** Depth of the current choice point on the search stack (0: none). */
-  level = 0;
   private readonly maxVars: number;
 
   constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {

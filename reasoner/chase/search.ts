@@ -58,7 +58,6 @@ export class KeptSearch {
 export function leave(chase: Chase, kept: KeptSearch): void {
   if (kept.stack.length > 0) chase.undo(kept.stack[0]!.mark);
   kept.stack = [];
-  chase.level = 0;
 }
 
 interface ChoicePoint {
@@ -92,10 +91,11 @@ function run(chase: Chase): boolean {
 function nextChoice(chase: Chase): number {
   const list = chase.pending;
   if (!chase.program.blocking) {
+    const rules = chase.program.rules;
     for (let i = chase.pendingCursor; i < list.length; i++) {
+      if (rules[list.rules[i]!]!.head[0]?.atoms[0]?.kind !== EQUAL) continue; // before loading: most are guesses
       const rule = chase.loadInstance(list, i);
-      if (rule === null || rule.head.length === 0 || rule.head[0]!.atoms[0]?.kind !== EQUAL) continue;
-      if (!chase.holds(rule)) return i;
+      if (rule !== null && !chase.holds(rule)) return i;
     }
   }
   let prefix = true;
@@ -120,13 +120,13 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
   if (options.resume) options.resume.stack = [];
   for (const top of stack) { top.start = (top.start + top.tried) % top.count; top.tried = 0; top.failDep = 0; }
   let models = 0, rootSeen = resumed;
-  chase.level = stack.length;
   let ok = resumed || run(chase), closedBy = 0;
-  const finish = () => { if (stack.length > 0) chase.undo(stack[0]!.mark); chase.level = 0; return models; };
+  const finish = () => { if (stack.length > 0) chase.undo(stack[0]!.mark); return models; };
+  /** Ends the search keeping the choices on the stack (the store holds the state they make) in `keep`. */
+  const keepStack = (keep: KeptSearch) => { keep.stack = stack; return models; };
   const apply = (top: ChoicePoint): boolean => {
     guard.branch();
     const rule = chase.loadInstance(chase.pending, top.instance)!;
-    chase.level = stack.length;
     const next = (top.start + top.tried) % top.count;
     const d = options.reverse ? top.count - 1 - next : next;
     return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
@@ -137,9 +137,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
       // Out of budget: with `keep`, the choices below the newest level stay (a consistent state) for a later search.
       if (!options.keep || !options.keepPartial || stack.length === 0) return finish();
       chase.undo(stack.pop()!.mark);
-      options.keep.stack = stack;
-      chase.level = 0;
-      return models;
+      return keepStack(options.keep);
     }
     if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
@@ -149,7 +147,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
       if (choice < 0) {
         models++;
         if (hooks.onModel(chase, stack.length)) {
-          if (options.keep && stack.length > 0) { options.keep.stack = stack; return models; }
+          if (options.keep && stack.length > 0) return keepStack(options.keep);
           return finish();
         }
         ok = false;
@@ -172,9 +170,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
         // level undone stay (a consistent state of the earlier choices) for a later search to resume from.
         if (!options.keep) return finish();
         if (!undone) chase.undo(stack.pop()!.mark);
-        options.keep.stack = stack;
-        chase.level = 0;
-        return models;
+        return keepStack(options.keep);
       }
       stack.length = level;
       const top = stack[level - 1]!;

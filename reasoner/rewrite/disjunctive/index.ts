@@ -88,8 +88,7 @@ export function signature(normal: NormalOntology): { classes: string[]; roles: s
   for (const a of normal.axioms) {
     switch (a.kind) {
       case 'subsumption': a.body.forEach((x) => c(x, neg)); a.head.forEach((x) => c(x, pos)); break;
-      case 'exists': case 'atLeast': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, pos); break;
-      case 'forall': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, pos); break;
+      case 'exists': case 'atLeast': case 'forall': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, pos); break;
       case 'atMost': c(a.sub, neg); r(a.property); if (a.filler !== null) c(a.filler, neg); break;
       case 'propertyInclusion': r(a.sub); r(a.sup); break;
       case 'propertyDisjointness': r(a.properties[0]); r(a.properties[1]); break;
@@ -126,8 +125,8 @@ function frameworkRules(sig: ReturnType<typeof signature>, userClasses: readonly
       add([succ('x', 'y'), binary(objectView(r), s, t)], [[binary(subjectView(r), s, t)]]);
     }
   }
-  // Completion: every relevant class (see `signature`) at every created element, and every relevant role in both
-  // directions towards its predecessor, is guessed absent or present — absent first, so that the first branch
+  // Completion: every relevant class (see `signature`) at every created element, and every role in both directions
+  // towards its predecessor, is guessed absent or present — absent first, so that the first branch
   // holds only what is forced and types stay few; constraints reject a guess that the axioms contradict later.
   for (const c of guessed) {
     add([unary(ANONYMOUS, 'y')], [[unary(absentClass(c), 'y')], [unary(inClass(c), 'y')]]);
