@@ -6,18 +6,20 @@ import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
 import fs from 'node:fs';
 import path from 'node:path';
+import type { IncomingMessage, ServerResponse } from 'node:http';
 import type { AppContext } from './context.js';
 import { setupPassport } from './auth/passport.js';
 import { createCsrf } from './http/csrf.js';
 import { errorHandler, HttpError, notFoundHandler } from './http/errors.js';
-import { mountEarlyRoutes, mountQueryApi, mountRoutes } from './routes/index.js';
+import { mountEarlyRoutes, mountRoutes } from './routes/index.js';
+import { isQueryApiUrl, queryApiApp, TRUST_PROXY } from './v1/app.js';
 import { methodNotAllowed } from './http/methods.js';
 
 export function createApp(ctx: AppContext): express.Express {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
-  mountQueryApi(app, ctx);
+  app.set('trust proxy', TRUST_PROXY);
+  dispatchQueryApi(app, queryApiApp(ctx));
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -70,6 +72,20 @@ export function createApp(ctx: AppContext): express.Express {
   app.use(notFoundHandler);
   app.use(errorHandler);
   return app;
+}
+
+type Handle = (req: IncomingMessage, res: ServerResponse, callback?: (error?: unknown) => void) => void;
+
+/**
+ * Sends /api/v1 requests to the query API's own app before the main app sees them: an Express app, called by the HTTP
+ * server, runs its `handle`, so replacing it here dispatches without the main app's own layers (its final handler,
+ * prototype switch and router), which every query would otherwise pay for before reaching its first step.
+ */
+function dispatchQueryApi(app: express.Express, api: express.Express): void {
+  const target = app as unknown as { handle: Handle };
+  const main = target.handle.bind(app);
+  const query = (api as unknown as { handle: Handle }).handle.bind(api);
+  target.handle = (req, res, callback) => (isQueryApiUrl(req.url ?? '/') ? query(req, res, callback) : main(req, res, callback));
 }
 
 function formTargets(ctx: AppContext): string[] {

@@ -11,22 +11,13 @@ import { subscriptionsRouter } from './subscriptions.js';
 import { keysRouter } from './keys.js';
 import { usageRouter } from './usage.js';
 import { webhooksRouter } from './webhooks.js';
-import { v1Router } from './v1.js';
 
 /** Routes that must see the raw body (signed webhooks): mounted before the JSON parser. */
 export function mountEarlyRoutes(app: Express, ctx: AppContext): void {
   app.use('/api/webhooks', webhooksRouter(ctx));
 }
 
-/**
- * The key-authenticated query API: mounted first of all (before helmet, sessions, cookie parser, CSRF and the body
- * parsers) because a query needs none of them; its router sets the few security headers a JSON API wants itself.
- */
-export function mountQueryApi(app: Express, ctx: AppContext): void {
-  app.use('/api/v1', v1Router(ctx));
-}
-
-/** Cookie-authenticated and public routes under /api (the key-authenticated /api/v1 is mounted by mountQueryApi). */
+/** Cookie-authenticated and public routes under /api (the key-authenticated /api/v1 has its own app: server/v1/app.ts). */
 export function mountRoutes(app: Express, ctx: AppContext): void {
   app.use('/api/auth', authRouter(ctx));
   app.use('/api/account', accountRouter(ctx));

@@ -75,7 +75,18 @@ export async function revokeKey(ctx: AppContext, userId: string, keyId: string):
   return toView(rows[0]);
 }
 
-const cache = new Map<string, { at: number; key: ResolvedKey | null }>();
+interface CacheEntry { at: number; key: ResolvedKey | null }
+const cache = new Map<string, CacheEntry>();
+
+/**
+ * The verdicts of whole key strings whose SHA-256 matched their row, so a key seen again is not hashed again. Each
+ * holds the row's cache entry and counts only while that entry is still the cached one and fresh: a revocation, plan
+ * change or reload replaces or drops the entry (revokeKey, forgetSubscription, KEY_CACHE_MS), and the verdict with it.
+ * Only matching keys are kept (a wrong key adds nothing), and the map is bounded. A wrong key is looked up by its
+ * string hash here, then hashed and compared in constant time as before.
+ */
+const verdicts = new Map<string, { prefix: string; entry: CacheEntry; check: KeyCheck }>();
+export const MAX_VERDICTS = 10_000;
 
 /** Drops cached keys of a subscription (plan change, cancellation) so this process sees the change at once. */
 export function forgetSubscription(subscriptionId: string): void {
@@ -115,11 +126,19 @@ export async function verifyKey(ctx: AppContext, presented: string): Promise<Key
  * null. Synchronous so the hot path spends no promise and no microtask turn on a key it already knows.
  */
 export function verifyCachedKey(presented: string): KeyCheck | null {
+  const now = Date.now();
+  const known = verdicts.get(presented);
+  if (known && cache.get(known.prefix) === known.entry && now - known.entry.at <= KEY_CACHE_MS) return known.check;
   const match = KEY_SHAPE.exec(presented);
   if (!match) return { ok: false, reason: 'malformed' };
   const entry = cache.get(match[1]);
-  if (!entry || Date.now() - entry.at > KEY_CACHE_MS) return null;
-  return check(presented, entry.key);
+  if (!entry || now - entry.at > KEY_CACHE_MS) return null;
+  const verdict = check(presented, entry.key);
+  if (verdict.ok || verdict.reason !== 'unknown') {
+    if (verdicts.size >= MAX_VERDICTS) verdicts.clear();
+    verdicts.set(presented, { prefix: match[1], entry, check: verdict });
+  }
+  return verdict;
 }
 
 function check(presented: string, key: ResolvedKey | null): KeyCheck {

@@ -49,11 +49,13 @@ export function factsHandler(ctx: AppContext): RequestHandler {
   return async (req, res, next) => {
     try {
       const version = res.locals.version as PublishedVersion;
-      const pattern = readPattern(req.query as Record<string, unknown>);
-      const limitText = param(req.query as Record<string, unknown>, 'limit');
+      // Express 5 parses the query string again on every read of req.query: read it once.
+      const query = req.query as Record<string, unknown>;
+      const pattern = readPattern(query);
+      const limitText = param(query, 'limit');
       const limit = limitText === undefined ? DEFAULT_LIMIT : Number(limitText);
       if (!Number.isInteger(limit) || limit < 1 || limit > MAX_LIMIT) throw badRequest(`"limit" must be a whole number from 1 to ${MAX_LIMIT}.`, { limit: [`1 to ${MAX_LIMIT}`] });
-      const cursor = param(req.query as Record<string, unknown>, 'cursor') ?? null;
+      const cursor = param(query, 'cursor') ?? null;
       const all = pattern.subject !== undefined && pattern.predicate !== undefined && pattern.object !== undefined;
       let page;
       try {

@@ -1,6 +1,6 @@
-// The key-authenticated query API. Mounted first (before helmet, sessions and the JSON parser): a query needs neither
-// a cookie session nor CSRF, and skipping them keeps the hot path short. Bodies are parsed here per route.
-import express, { Router, type RequestHandler } from 'express';
+// The routes of the key-authenticated query API, served by its own lean app (server/v1/app.ts) before the main app's
+// helmet, sessions and JSON parser: a query needs neither a cookie session nor CSRF. Bodies are parsed here per route.
+import express, { Router, type RequestHandler, type Response } from 'express';
 import type { AppContext } from '../context.js';
 import { HttpError } from '../http/errors.js';
 import { apiRateLimiter } from '../services/rateLimit.js';
@@ -40,15 +40,23 @@ export function chain(...steps: RequestHandler[]): RequestHandler {
   };
 }
 
-export function v1Router(ctx: AppContext): Router {
+/** Sets the headers every /api/v1 answer carries (see v1Routes). */
+export function setApiHeaders(res: Response): void {
+  for (let i = 0; i < API_HEADERS.length; i += 2) res.setHeader(API_HEADERS[i], API_HEADERS[i + 1]);
+}
+
+/** The query routes' handlers, each built once: the full router, and the two GET query routes for the hot path (server/v1/app.ts). */
+export interface QueryRoutes { router: Router; facts: RequestHandler; sparql: RequestHandler }
+
+export function v1Routes(ctx: AppContext): QueryRoutes {
   const router = Router();
   // CORS for browser applications on other sites: the key travels in the Authorization header, never in a cookie, so
   // any origin may call (Fetch standard, CORS protocol; preflight answered here without authentication).
-  // The router is mounted before helmet (see server/routes/index.ts), so it sets the headers a JSON API needs itself:
+  // The API has its own app, outside helmet (see server/v1/app.ts), so it sets the headers a JSON API needs itself:
   // nosniff, and a policy that lets no answer act as a document (common practice for JSON APIs, from memory: OWASP
   // REST Security Cheat Sheet, "Security headers"). Set with setHeader from one constant list: this runs on every query.
   router.use((req, res, next) => {
-    for (let i = 0; i < API_HEADERS.length; i += 2) res.setHeader(API_HEADERS[i], API_HEADERS[i + 1]);
+    setApiHeaders(res);
     if (req.method !== 'OPTIONS') return next();
     res.setHeader('Access-Control-Allow-Methods', 'GET, POST');
     res.setHeader('Access-Control-Allow-Headers', 'Authorization, Content-Type, Accept');
@@ -61,9 +69,12 @@ export function v1Router(ctx: AppContext): Router {
   });
   const pipeline = [authenticateKey(ctx), resolveListing(ctx), apiRateLimiter(ctx.pool), enforceQuota(ctx)];
   const bodies = [express.text({ type: 'application/sparql-query', limit: '64kb' }), express.urlencoded({ extended: false, limit: '64kb' })];
-  router.get('/kbs/:slug/facts', chain(...pipeline, factsHandler(ctx)));
-  router.get('/kbs/:slug/sparql', chain(...pipeline, sparqlHandler(ctx)));
-  router.post('/kbs/:slug/sparql', chain(...bodies, ...pipeline, sparqlHandler(ctx)));
+  const facts = chain(...pipeline, factsHandler(ctx));
+  const sparql = sparqlHandler(ctx);
+  const sparqlGet = chain(...pipeline, sparql);
+  router.get('/kbs/:slug/facts', facts);
+  router.get('/kbs/:slug/sparql', sparqlGet);
+  router.post('/kbs/:slug/sparql', chain(...bodies, ...pipeline, sparql));
   router.use((req, _res, next) => next(new HttpError(req.method === 'GET' || req.method === 'POST' ? 404 : 405, `No route ${req.method} /api/v1${req.path}. See /api/v1/openapi.json.`)));
-  return router;
+  return { router, facts, sparql: sparqlGet };
 }
