@@ -16,7 +16,9 @@ export const MAX_BATCH_ROWS = 10_000;
 
 const NAMES = { s: 'subject', p: 'predicate', o: 'object' } as const;
 
-interface Pending { pattern: FactPattern; after: [number, number, number] | null; limit: number; resolve: (page: FactPage) => void; reject: (error: unknown) => void }
+/** Called once with the page, or with the error (an InvalidCursorError before anything is queued, or the statement's); must not throw. */
+export type PageCallback = (error: unknown, page: FactPage | null) => void;
+interface Pending { pattern: FactPattern; after: [number, number, number] | null; limit: number; done: PageCallback }
 interface Shape { storeKey: number; bound: Position[]; cursor: boolean; order: 'spo' | 'pos' | 'osp' }
 
 /**
@@ -82,20 +84,31 @@ export class FactLookupBatcher {
 
   /** The same page as lookupFacts(pool, storeKey, pattern, page), answered with the other lookups of this turn. */
   lookup(storeKey: number, pattern: FactPattern, page: { limit: number; cursor?: string | null }): Promise<FactPage> {
-    return new Promise((resolve, reject) => {
-      const limit = Math.max(1, Math.min(MAX_PAGE_SIZE, Math.floor(page.limit) || 1));
-      const order = orderFor(pattern);
-      const after = page.cursor ? decodeCursor(page.cursor, order) : null; // InvalidCursorError rejects this lookup only
+    return new Promise((resolve, reject) => this.lookupThen(storeKey, pattern, page, (error, found) => (found ? resolve(found) : reject(error))));
+  }
+
+  /** As lookup, answering through a callback: the API's hot path spends no promise on it. */
+  lookupThen(storeKey: number, pattern: FactPattern, page: { limit: number; cursor?: string | null }, done: PageCallback): void {
+    const limit = Math.max(1, Math.min(MAX_PAGE_SIZE, Math.floor(page.limit) || 1));
+    const order = orderFor(pattern);
+    let after: [number, number, number] | null = null;
+    try {
+      after = page.cursor ? decodeCursor(page.cursor, order) : null; // InvalidCursorError fails this lookup only
+    } catch (error) {
+      return done(error, null);
+    }
+    const s = pattern.subject !== undefined, p = pattern.predicate !== undefined, o = pattern.object !== undefined;
+    const key = `${storeKey}:${s ? 's' : ''}${p ? 'p' : ''}${o ? 'o' : ''}:${after ? 'c' : ''}`;
+    let queue = this.queues.get(key);
+    if (!queue) {
       const bound = (['s', 'p', 'o'] as const).filter((pos) => pattern[NAMES[pos]] !== undefined);
-      const key = `${storeKey}:${bound.join('')}:${after ? 'c' : ''}`;
-      let queue = this.queues.get(key);
-      if (!queue) this.queues.set(key, (queue = { shape: { storeKey, bound, cursor: after !== null, order }, pending: [] }));
-      queue.pending.push({ pattern, after, limit, resolve, reject });
-      if (!this.scheduled) {
-        this.scheduled = true;
-        setImmediate(this.flushAll);
-      }
-    });
+      this.queues.set(key, (queue = { shape: { storeKey, bound, cursor: after !== null, order }, pending: [] }));
+    }
+    queue.pending.push({ pattern, after, limit, done });
+    if (!this.scheduled) {
+      this.scheduled = true;
+      setImmediate(this.flushAll);
+    }
   }
 
   private send(shape: Shape, pending: Pending[]): void {
@@ -107,14 +120,14 @@ export class FactLookupBatcher {
           let end = at;
           while (end < rows.length && rows[end].i === n + 1) end++;
           const p = pending[n];
-          p.resolve(toPage(rows.slice(at, end), p.pattern, shape.order, p.limit));
+          p.done(null, toPage(rows.slice(at, end), p.pattern, shape.order, p.limit));
           at = end;
         }
       },
       (error: { code?: string }) => {
         // A version whose tables are gone (deleted, not ready) has no facts, as in lookupFacts.
-        if (error.code === '42P01') for (const p of pending) p.resolve({ facts: [], nextCursor: null });
-        else for (const p of pending) p.reject(error);
+        if (error.code === '42P01') for (const p of pending) p.done(null, { facts: [], nextCursor: null });
+        else for (const p of pending) p.done(error, null);
       },
     );
   }

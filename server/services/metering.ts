@@ -23,6 +23,17 @@ export function monthStart(at: Date = new Date()): Date {
   return new Date(Date.UTC(at.getUTCFullYear(), at.getUTCMonth(), 1));
 }
 
+let month = { start: 0, end: 0 };
+
+/** monthStart(new Date(now)).getTime(), kept until the month changes: the quota step asks on every request. */
+export function monthStartMs(now: number = Date.now()): number {
+  if (now < month.start || now >= month.end) {
+    const at = new Date(now);
+    month = { start: Date.UTC(at.getUTCFullYear(), at.getUTCMonth(), 1), end: Date.UTC(at.getUTCFullYear(), at.getUTCMonth() + 1, 1) };
+  }
+  return month.start;
+}
+
 export function latencyBucket(ms: number): number {
   for (let i = 0; i < LATENCY_BUCKETS_MS.length; i++) if (ms <= LATENCY_BUCKETS_MS[i]) return i;
   return LATENCY_BUCKETS_MS.length;
@@ -67,7 +78,8 @@ export class Meter {
   /** What usedThisMonth would answer when it needs no read (the total read within QUOTA_REFRESH_MS this month), else null. */
   usedThisMonthIfFresh(subscriptionId: string): number | null {
     const base = this.base.get(subscriptionId);
-    if (!base || base.month !== monthStart().getTime() || Date.now() - base.at > QUOTA_REFRESH_MS) return null;
+    const now = Date.now();
+    if (!base || base.month !== monthStartMs(now) || now - base.at > QUOTA_REFRESH_MS) return null;
     return base.used + (this.inflightOk.get(subscriptionId) ?? 0) + (this.pendingOk.get(subscriptionId) ?? 0);
   }
 

@@ -30,7 +30,8 @@ export function leaseSize(limit: number | undefined): number {
   return Math.max(1, Math.min(MAX_LEASE, Math.floor(limit * LEASE_SHARE)));
 }
 
-interface Lease { next: number; end: number; resetAt: number; claiming: Promise<void> | null }
+/** resetTime is one Date per lease, handed to every request it admits (express-rate-limit only reads it). */
+interface Lease { next: number; end: number; resetAt: number; resetTime: Date; claiming: Promise<void> | null }
 
 export class PostgresRateLimitStore implements Store {
   windowMs = WINDOW_MS;
@@ -61,15 +62,15 @@ export class PostgresRateLimitStore implements Store {
     }
     for (;;) {
       const lease = this.leases.get(key);
-      if (lease && lease.next <= lease.end && lease.resetAt > Date.now()) return { totalHits: lease.next++, resetTime: new Date(lease.resetAt) };
+      if (lease && lease.next <= lease.end && lease.resetAt > Date.now()) return { totalHits: lease.next++, resetTime: lease.resetTime };
       if (lease?.claiming) {
         await lease.claiming;
         continue;
       }
-      const holder: Lease = lease ?? { next: 1, end: 0, resetAt: 0, claiming: null };
+      const holder: Lease = lease ?? { next: 1, end: 0, resetAt: 0, resetTime: new Date(0), claiming: null };
       holder.claiming = this.claim(key, batch).then(
         ({ hits, resetAt }) => {
-          this.leases.set(key, { next: hits - batch + 1, end: hits, resetAt, claiming: null });
+          this.leases.set(key, { next: hits - batch + 1, end: hits, resetAt, resetTime: new Date(resetAt), claiming: null });
         },
         (error) => {
           holder.claiming = null;
@@ -106,16 +107,27 @@ export class PostgresRateLimitStore implements Store {
 export function apiRateLimiter(pool: pg.Pool): RequestHandler {
   // The plan limit of each key seen recently, for the store's lease size (set by keyGenerator, read by increment).
   const limits = new Map<string, number>();
+  const names = new Map<number, string>();
   return rateLimit({
     windowMs: WINDOW_MS,
     limit: (_req, res) => (res.locals.apiKey as ResolvedKey).ratePerMinute,
     keyGenerator: (_req, res) => {
       const key = res.locals.apiKey as ResolvedKey;
-      if (limits.size > 50_000) limits.clear();
-      limits.set(key.keyId, key.ratePerMinute);
+      if (limits.get(key.keyId) !== key.ratePerMinute) {
+        if (limits.size > 50_000) limits.clear();
+        limits.set(key.keyId, key.ratePerMinute);
+      }
       return key.keyId;
     },
-    identifier: (_req, res) => `per-key-${(res.locals.apiKey as ResolvedKey).ratePerMinute}-per-minute`,
+    identifier: (_req, res) => {
+      const rate = (res.locals.apiKey as ResolvedKey).ratePerMinute;
+      let name = names.get(rate);
+      if (name === undefined) {
+        if (names.size > 1_000) names.clear();
+        names.set(rate, (name = `per-key-${rate}-per-minute`));
+      }
+      return name;
+    },
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     store: new PostgresRateLimitStore(pool, (key) => limits.get(key)),

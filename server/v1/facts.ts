@@ -46,34 +46,39 @@ export function readPattern(query: Record<string, unknown>): FactPattern {
 
 export function factsHandler(ctx: AppContext): RequestHandler {
   const batcher = factLookupBatcher(ctx.pool);
-  return async (req, res, next) => {
+  // Callbacks, not async/await: this runs on every lookup, and each promise and microtask turn shows in its CPU cost.
+  return (req, res, next) => {
+    const version = res.locals.version as PublishedVersion;
+    let pattern: FactPattern, limit: number, cursor: string | null;
     try {
-      const version = res.locals.version as PublishedVersion;
       // Express 5 parses the query string again on every read of req.query: read it once.
       const query = req.query as Record<string, unknown>;
-      const pattern = readPattern(query);
+      pattern = readPattern(query);
       const limitText = param(query, 'limit');
-      const limit = limitText === undefined ? DEFAULT_LIMIT : Number(limitText);
+      limit = limitText === undefined ? DEFAULT_LIMIT : Number(limitText);
       if (!Number.isInteger(limit) || limit < 1 || limit > MAX_LIMIT) throw badRequest(`"limit" must be a whole number from 1 to ${MAX_LIMIT}.`, { limit: [`1 to ${MAX_LIMIT}`] });
-      const cursor = param(query, 'cursor') ?? null;
-      const all = pattern.subject !== undefined && pattern.predicate !== undefined && pattern.object !== undefined;
-      let page;
-      try {
-        // Coalesced with the other lookups of this event-loop turn into one statement (server/services/factBatch.ts).
-        page = await batcher.lookup(version.storeKey, pattern, { limit: all ? 1 : limit, cursor: all ? null : cursor });
-      } catch (error) {
-        if (error instanceof InvalidCursorError) throw badRequest(error.message, { cursor: ['Not a cursor this query handed out.'] });
-        throw error;
-      }
-      const kb = { slug: req.params.slug, version: version.number };
-      if (all) {
-        const fact = page.facts[0];
-        sendJson(res, { kb, fact: { subject: pattern.subject, predicate: pattern.predicate, object: pattern.object }, entailed: !!fact, asserted: fact ? fact.asserted : false });
-        return;
-      }
-      sendJson(res, { kb, pattern, facts: page.facts, nextCursor: page.nextCursor });
+      cursor = param(query, 'cursor') ?? null;
     } catch (error) {
-      next(error);
+      return next(error);
     }
+    const all = pattern.subject !== undefined && pattern.predicate !== undefined && pattern.object !== undefined;
+    // Coalesced with the other lookups of this event-loop turn into one statement (server/services/factBatch.ts).
+    batcher.lookupThen(version.storeKey, pattern, { limit: all ? 1 : limit, cursor: all ? null : cursor }, (error, page) => {
+      try {
+        if (error) {
+          if (error instanceof InvalidCursorError) throw badRequest(error.message, { cursor: ['Not a cursor this query handed out.'] });
+          throw error;
+        }
+        const kb = { slug: req.params.slug, version: version.number };
+        if (all) {
+          const fact = page!.facts[0];
+          sendJson(res, { kb, fact: { subject: pattern.subject, predicate: pattern.predicate, object: pattern.object }, entailed: !!fact, asserted: fact ? fact.asserted : false });
+          return;
+        }
+        sendJson(res, { kb, pattern, facts: page!.facts, nextCursor: page!.nextCursor });
+      } catch (thrown) {
+        next(thrown);
+      }
+    });
   };
 }

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import supertest from 'supertest';
 import { createTestApp, type TestApp } from '../support/app.js';
 import { publishedListing, subscriberWithKey, type TestListing } from '../support/market.js';
-import { meterFor, stopMeter, latencyBucket } from '../../server/services/metering.js';
+import { meterFor, stopMeter, latencyBucket, monthStartMs } from '../../server/services/metering.js';
 import { leaseSize } from '../../server/services/rateLimit.js';
 import { listMail, waitForMail } from '../support/mail.js';
 
@@ -124,6 +124,15 @@ describe('metering', () => {
     expect(used.rows[0].last_used_at).not.toBeNull();
   });
 
+  it('the quota month starts on the 1st at 00:00 UTC, also when the clock crosses a month or goes back', () => {
+    // Calendar dates (Gregorian, ISO 8601 instants in UTC), written out by hand: 2028 is a leap year.
+    const at = (iso: string) => new Date(iso).getTime();
+    expect(monthStartMs(at('2028-02-29T23:59:59.999Z'))).toBe(at('2028-02-01T00:00:00Z'));
+    expect(monthStartMs(at('2028-03-01T00:00:00Z'))).toBe(at('2028-03-01T00:00:00Z'));
+    expect(monthStartMs(at('2028-12-31T23:59:59.999Z'))).toBe(at('2028-12-01T00:00:00Z'));
+    expect(monthStartMs(at('2029-01-01T00:00:00Z'))).toBe(at('2029-01-01T00:00:00Z'));
+    expect(monthStartMs(at('2028-02-15T12:00:00Z'))).toBe(at('2028-02-01T00:00:00Z'));
+  });
   it('latency buckets are upper bounds in milliseconds', () => {
     expect(latencyBucket(0.4)).toBe(0);
     expect(latencyBucket(1)).toBe(0);
