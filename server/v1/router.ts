@@ -1,6 +1,6 @@
 // The routes of the key-authenticated query API, served by its own lean app (server/v1/app.ts) before the main app's
 // helmet, sessions and JSON parser: a query needs neither a cookie session nor CSRF. Bodies are parsed here per route.
-import express, { Router, type RequestHandler, type Response } from 'express';
+import express, { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import type { AppContext } from '../context.js';
 import { HttpError } from '../http/errors.js';
 import { apiRateLimiter } from '../services/rateLimit.js';
@@ -23,21 +23,32 @@ const API_HEADERS = [
  * a router layer, path match and dispatch per step — the steps run on every query.
  */
 export function chain(...steps: RequestHandler[]): RequestHandler {
-  return (req, res, done) => {
-    let at = 0;
-    const next = (error?: unknown): void => {
-      if (error) return done(error); // as the router: any truthy value, 'route' and 'router' included, leaves the chain
-      const step = steps[at++];
-      if (!step) return done();
-      try {
-        const result = step(req, res, next) as unknown;
-        if (result instanceof Promise) result.catch(done);
-      } catch (thrown) {
-        done(thrown);
-      }
-    };
-    next();
-  };
+  return (req, res, done) => new StepRun(steps, req, res, done).next();
+}
+
+/**
+ * One request's walk through the steps. A class with a bound method rather than a closure: the server runs under tsx,
+ * whose build keeps function names, so a closure named `next` would cost an Object.defineProperty on every request.
+ */
+class StepRun {
+  private at = 0;
+  readonly next: NextFunction;
+
+  constructor(private readonly steps: RequestHandler[], private readonly req: Request, private readonly res: Response, private readonly done: NextFunction) {
+    this.next = this.advance.bind(this) as NextFunction;
+  }
+
+  private advance(error?: unknown): void {
+    if (error) return this.done(error); // as the router: any truthy value, 'route' and 'router' included, leaves the chain
+    const step = this.steps[this.at++];
+    if (!step) return this.done();
+    try {
+      const result = step(this.req, this.res, this.next) as unknown;
+      if (result instanceof Promise) result.catch(this.done);
+    } catch (thrown) {
+      this.done(thrown);
+    }
+  }
 }
 
 /** Sets the headers every /api/v1 answer carries (see v1Routes). */

@@ -55,11 +55,10 @@ export function jsonTerm(stored: string): JsonTerm {
 
 /**
  * Writes a JSON answer with res.end, not res.json: Express would hash every body for an ETag, work that a query answer
- * (rarely revalidated, and cheap to recompute) does not need on the hot path.
+ * (rarely revalidated, and cheap to recompute) does not need on the hot path. Content-Length is left to Node, which
+ * sets it from the body that end() is given when no header has been sent yet.
  */
 export function sendJson(res: Response, body: unknown, type = 'application/json; charset=utf-8'): void {
-  const text = JSON.stringify(body);
   res.setHeader('Content-Type', type);
-  res.setHeader('Content-Length', Buffer.byteLength(text));
-  res.end(text);
+  res.end(JSON.stringify(body));
 }

@@ -260,6 +260,9 @@ describe('GET /api/v1/openapi.json', () => {
       expect(res.headers['referrer-policy'], where).toBe('no-referrer');
       expect(res.headers['content-type'], where).toMatch(/^application\/json/);
       expect(res.headers['set-cookie'], where).toBeUndefined();
+      // A body of known length is framed by Content-Length, not chunked (RFC 9112 §6.1–6.2; RFC 9110 §8.6).
+      expect(Number(res.headers['content-length']), where).toBe(Buffer.byteLength(res.text));
+      expect(res.headers['transfer-encoding'], where).toBeUndefined();
     }
     expect(answers[1]!.body.entailed).toBe(true);
   });
