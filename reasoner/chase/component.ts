@@ -171,18 +171,18 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
     const kept = new KeptSearch();
     // `partial`: a search out of budget keeps its earlier choices (one by one); else it goes back to the root (groups:
     // the state a group ran out of budget in is deep in choices made for that group's constraint, a poor start).
-    const find = (bad: (c: Chase) => number, budget: number | undefined, partial: boolean): Set<string> | null => {
+    const find = (bad: (c: Chase) => number, budget: number | undefined, partial: boolean, focus?: readonly number[]): Set<string> | null => {
       let model: Set<string> | null = null;
       const hooks = { violated: bad, onModel: (c: Chase) => { model = keyOf(namedFacts(c)); return true; } };
       if (kept.active) {
-        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial });
+        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial, focus });
         return model;
       }
       leave(chase, kept);
       // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
       // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
       keptReverse = reverse && program.blocking;
-      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial });
+      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial, focus });
       reverse = !reverse;
       return model;
     };
@@ -203,19 +203,29 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
       }
     };
     // One by one, newest dependency first: a proof backjumps only to the choices its fact depends on and keeps the
-    // choices below, so taking the candidates that depend on late choices first keeps each proof short. With a
+    // choices below, so taking the candidates that depend on late choices first keeps each proof short. Each search
+    // branches first on the disjunctions the fact depended on (`focus`): after a proof has undone the choices above
+    // a shared early one (a hut all its trails end at), the next fact that depends on it is proven by flipping it
+    // again, not after re-deciding every unrelated choice in between. With a
     // budget, a candidate whose search outgrows it is returned for later (usually one that a model lacks, which costs
     // redoing the choices above its own).
     const oneByOne = (budget?: number): string[] => {
-      const order = [...open].map((k) => ({ k, level: kept.active ? newestLevel(chase, holdsKey(chase, parse(k))) : 0 }));
+      // Stand in a model first (any, if the last search left none), so that each candidate's dependencies are known.
+      if (open.size > 0) { const m = find(() => -1, undefined, true); if (m !== null) keepOnly(m); }
+      const order = [...open].map((k) => {
+        const dep = kept.active ? holdsKey(chase, parse(k)) : -1;
+        return { k, level: newestLevel(chase, dep), focus: focusOf(chase, kept, dep) };
+      });
       order.sort((x, y) => x.level - y.level);
       const left: string[] = [];
       while (order.length > 0) {
-        const f = order.pop()!.k;
+        const next = order.pop()!, f = next.k;
         if (!open.has(f)) continue;
         const key = parse(f);
+        const now = kept.active ? holdsKey(chase, key) : -1;
+        const focus = now > 0 ? focusOf(chase, kept, now) : next.focus;
         const before = guard.branches;
-        const model = find((c) => holdsKey(c, key), budget, true);
+        const model = find((c) => holdsKey(c, key), budget, true, focus);
         if (model !== null) { keepOnly(model); continue; }
         if (budget !== undefined && guard.branches - before > budget) { left.push(f); continue; }
         open.delete(f);
@@ -231,6 +241,14 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
   stats.models += models;
   stats.storeBytes = Math.max(stats.storeBytes, chase.store.byteLength);
   return { facts: factsOfKeys([...certain, ...entailed]) };
+}
+
+/** The disjunctions chosen at the levels of a dependency set in the kept search, oldest first. */
+function focusOf(chase: Chase, kept: KeptSearch, dep: number): number[] | undefined {
+  if (dep <= 0) return undefined;
+  const out: number[] = [];
+  for (const level of chase.deps.levels(dep)) { const top = kept.stack[level - 1]; if (top) out.push(top.instance); }
+  return out;
 }
 
 /** The newest choice level in a dependency set (0 for none; -1 sets, unknown, count as 0). */

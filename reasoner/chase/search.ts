@@ -46,6 +46,12 @@ export interface SearchOptions {
    * from; with `keepPartial` also one that runs out of budget (it keeps the choices below its newest level).
    */
   readonly keepPartial?: boolean;
+  /**
+   * Recorded disjunctions to branch on first while they are open (instance indices; any order of choices is
+   * complete): for a candidate's proof, the choices its fact depended on in an earlier model, so that the proof
+   * decides them before re-deciding the unrelated choices a backjump undid above them.
+   */
+  readonly focus?: readonly number[];
 }
 
 /** The choice stack of a model a search stopped in (see `keep`). */
@@ -84,12 +90,17 @@ function run(chase: Chase): boolean {
 }
 
 /**
- * Returns the first recorded disjunction that does not hold, or -1; advances the cursor over the held prefix. On a
+ * Returns the first focused disjunction that does not hold, else the first recorded one, or -1; advances the cursor over the held prefix. On a
  * self-terminating program (blocking off) equality disjunctions (the ≤n rules) go first: merges are then decided
  * before the merged elements' completion guesses and the copies those bring (README, "A case found by a sweep").
  */
-function nextChoice(chase: Chase): number {
+function nextChoice(chase: Chase, focus: readonly number[] | undefined): number {
   const list = chase.pending;
+  if (focus !== undefined) for (const i of focus) {
+    if (i < chase.pendingCursor || i >= list.length) continue;
+    const rule = chase.loadInstance(list, i);
+    if (rule !== null && !chase.holds(rule)) return i;
+  }
   if (!chase.program.blocking) {
     const rules = chase.program.rules;
     for (let i = chase.pendingCursor; i < list.length; i++) {
@@ -142,7 +153,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     if (ok && hooks.violated) { const d = hooks.violated(chase); if (d !== -1) { ok = false; closedBy = d >= 0 ? d : -1; } }
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
-      const choice = nextChoice(chase);
+      const choice = nextChoice(chase, options.focus);
       if (choice < 0 && !chase.program.blocking && chase.generate() > 0) { ok = run(chase); continue; }
       if (choice < 0) {
         models++;
