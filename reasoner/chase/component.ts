@@ -153,7 +153,7 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
       candidates = candidates === null ? [...model].filter((k) => !certain.has(k)) : candidates.filter((k) => model.has(k));
       return !plain || candidates.length === 0;
     },
-  }, { backjump: !plain });
+  }, { backjump: !plain, deferDeep: !plain });
   if (models === 0) {
     stats.models += models;
     if (firstClash === undefined && chase.clash !== null) firstClash = clashReport(chase);
@@ -175,14 +175,14 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
       let model: Set<string> | null = null;
       const hooks = { violated: bad, onModel: (c: Chase) => { model = keyOf(namedFacts(c)); return true; } };
       if (kept.active) {
-        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial, focus });
+        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial, focus, deferDeep: true });
         return model;
       }
       leave(chase, kept);
       // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
       // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
       keptReverse = reverse && program.blocking;
-      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial, focus });
+      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial, focus, deferDeep: true });
       reverse = !reverse;
       return model;
     };

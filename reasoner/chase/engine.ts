@@ -330,9 +330,11 @@ export class Chase {
 
   /**
    * One round of the restricted chase for existential rules: every recorded trigger whose centre is not blocked and
-   * whose head does not hold yet gets new elements. Returns the number of triggers applied.
+   * whose head does not hold yet gets new elements. Returns the number of triggers applied. `deferDeep` (blocking
+   * on): leave the triggers of elements that can be blocked (an anonymous element with an anonymous parent) for a
+   * round with no disjunction open (README, "Deep elements generate last").
    */
-  generate(): number {
+  generate(deferDeep = false): number {
     const st = this.store, list = this.triggers;
     if (list.length === 0) return 0;
     // Blocking is computed only when some trigger is still open (it costs a pass over all elements).
@@ -353,6 +355,7 @@ export class Chase {
       if (rule === null) continue;
       const centre = this.env[rule.center]!;
       if (centre < status.length && status[centre]) continue;
+      if (deferDeep && centre >= st.named && st.parent[centre]! >= st.named) continue;
       if (this.holds(rule)) continue;
       const d = rule.head[0]!;
       for (const v of d.exists) this.env[v] = st.newElement(centre);

@@ -52,6 +52,13 @@ export interface SearchOptions {
    * decides them before re-deciding the unrelated choices a backjump undid above them.
    */
   readonly focus?: readonly number[];
+  /**
+   * After the root (blocking on): an element that can be blocked (anonymous, with an anonymous parent) gets its
+   * successors only once no disjunction is open anywhere, so its label is complete and blocking finds its blocker
+   * before it expands, not after a subtree built on a partial label (README, "Deep elements generate last"). Named
+   * elements and their direct successors, which are never blocked, still generate at once, as does the root.
+   */
+  readonly deferDeep?: boolean;
 }
 
 /** The choice stack of a model a search stopped in (see `keep`). */
@@ -78,14 +85,17 @@ interface ChoicePoint {
   failDep: number;
 }
 
-/** Runs saturation and generation rounds until nothing changes; false on ⊥. */
-function run(chase: Chase): boolean {
+/**
+ * Runs saturation and generation rounds until nothing changes; false on ⊥. With `deferDeep`, elements that can be
+ * blocked do not generate here: they wait for `search` to find no disjunction open.
+ */
+function run(chase: Chase, deferDeep: boolean): boolean {
   for (;;) {
     if (!chase.saturate()) return false;
     // Blocking off (a self-terminating program): disjunctions are non-generating and go before existentials;
     // generation happens in `search` once no disjunction is open.
     if (!chase.program.blocking) return true;
-    if (chase.generate() === 0) return true;
+    if (chase.generate(deferDeep) === 0) return true;
   }
 }
 
@@ -125,13 +135,14 @@ function nextChoice(chase: Chase, focus: readonly number[] | undefined): number 
  */
 export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: SearchOptions = {}): number {
   const backjump = options.backjump ?? true;
+  const deferDeep = options.deferDeep === true && chase.program.blocking;
   const deps = chase.deps;
   const resumed = options.resume?.active === true;
   const stack: ChoicePoint[] = resumed ? options.resume!.stack : [];
   if (options.resume) options.resume.stack = [];
   for (const top of stack) { top.start = (top.start + top.tried) % top.count; top.tried = 0; top.failDep = 0; }
   let models = 0, rootSeen = resumed;
-  let ok = resumed || run(chase), closedBy = 0;
+  let ok = resumed || run(chase, false), closedBy = 0;
   const finish = () => { if (stack.length > 0) chase.undo(stack[0]!.mark); return models; };
   /** Ends the search keeping the choices on the stack (the store holds the state they make) in `keep`. */
   const keepStack = (keep: KeptSearch) => { keep.stack = stack; return models; };
@@ -140,7 +151,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     const rule = chase.loadInstance(chase.pending, top.instance)!;
     const next = (top.start + top.tried) % top.count;
     const d = options.reverse ? top.count - 1 - next : next;
-    return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase);
+    return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase, deferDeep);
   };
   const lastBranch = options.budget === undefined ? Infinity : guard.branches + options.budget;
   for (;;) {
@@ -154,7 +165,7 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     else if (!ok) closedBy = chase.clash?.dep ?? 0;
     if (ok) {
       const choice = nextChoice(chase, options.focus);
-      if (choice < 0 && !chase.program.blocking && chase.generate() > 0) { ok = run(chase); continue; }
+      if (choice < 0 && (deferDeep || !chase.program.blocking) && chase.generate() > 0) { ok = run(chase, deferDeep); continue; }
       if (choice < 0) {
         models++;
         if (hooks.onModel(chase, stack.length)) {
