@@ -1,4 +1,4 @@
-// Benchmarks of the reasoner core (figures, not assertions). Run: npx tsx tests/bench/core.ts [--part 1|2|3|4] [--runs N]
+// Benchmarks of the reasoner core (figures, not assertions). Run: npx tsx tests/bench/core.ts [--part 1|2|3|4|5] [--runs N]
 // (1) Horn path against clingo on the same Datalog program with 1M+ input facts: wall-time ratio, bytes per fact;
 // (2) a disjunctive knowledge base with number restrictions and 10k individuals; (3) rewriting size and time;
 // (4) the published rewriting's plain chase against the optimised path on the same knowledge bases.
@@ -14,6 +14,7 @@ import { entail, type ChaseInput } from '../../reasoner/chase/entail.js';
 import { clingo, CountingSink } from './bench-tools.js';
 import { Guard } from '../../reasoner/chase/guard.js';
 import { catalogueAbox, disjunctiveCatalogue, hornDatalogOntology, mixedNormalForm, randomAbox } from './core-generators.js';
+import { searchShapes } from './core-shapes.js';
 
 const args = process.argv.slice(2);
 const part = args.includes('--part') ? Number(args[args.indexOf('--part') + 1]) : 0;
@@ -149,3 +150,4 @@ if (part === 0 || part === 3) rewritingScale();
 if (part === 0 || part === 1) await hornAgainstClingo();
 if (part === 0 || part === 2) await disjunctive10k();
 if (part === 0 || part === 4) await publishedAgainstOptimised();
+if (part === 0 || part === 5) await searchShapes();
