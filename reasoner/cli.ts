@@ -11,8 +11,13 @@ const usage = `usage: npm run reason -- <command> [options]
 commands:
   check     --ontology FILE [--json] [--approximate]   profile report (Horn-ALCHIQ / ALCHIQ / outside)
   normalize --ontology FILE [--approximate]            normal form in logical notation, with source positions
-  rewrite   --ontology FILE [--asp FILE]               rule program and statistics
+  rewrite   --ontology FILE [--asp FILE] [--path P]    rule program and statistics
   entail    --ontology FILE [--data FILE ...] [--stats] entailed facts as N-Triples on stdout
+            [--mapping FILE] [--threads N] [--path P] [--approximate]
+options:
+  --approximate  drop axioms outside ALCHIQ (listed on stderr) instead of refusing the ontology
+  --path P       datalog (Horn default), chase, or rewriting (the published rewriting, a slower reference)
+  --mapping FILE column mapping for .csv datasets; --threads N worker threads for independent components
 exit status: 0 success, 2 input error, 3 inconsistent knowledge base`;
 
 async function main(argv: string[]): Promise<number> {
@@ -25,6 +30,10 @@ async function main(argv: string[]): Promise<number> {
   if (!load) {
     process.stderr.write(`unknown command "${name}"\n${usage}\n`);
     return 2;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    process.stderr.write(usage + '\n');
+    return 0;
   }
   const command = await load();
   return command.run(rest);

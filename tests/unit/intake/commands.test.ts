@@ -77,3 +77,15 @@ describe('reason normalize', () => {
     expect(r.err).toMatch(/structural-spec-examples\.ofn:29:1: error: outside ALCHIQ: transitivity/);
   });
 });
+
+describe('reason --help', () => {
+  it('prints the usage with every command and option after a command name too, exit 0', async () => {
+    const { spawnSync } = await import('node:child_process');
+    for (const args of [['--help'], ['entail', '--help'], ['rewrite', '-h']]) {
+      const r = spawnSync(process.execPath, ['--import', 'tsx', 'reasoner/cli.ts', ...args], { encoding: 'utf8' });
+      expect(r.status, args.join(' ')).toBe(0);
+      expect(r.stdout).toBe(''); // the usage goes to stderr: stdout carries only facts and programs
+      for (const word of ['check', 'normalize', 'rewrite', 'entail', '--data', '--stats', '--path', '--threads', '--mapping', '--approximate']) expect(r.stderr).toContain(word);
+    }
+  }, 30_000);
+});
