@@ -4,7 +4,7 @@
 
 import { BINARY, EQUAL, UNARY, type CompiledAtom, type CompiledProgram, type CompiledRule, type JoinStep } from './program.js';
 import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
-import { blockedElements } from './blocking.js';
+import { BlockerCache, blockedElements } from './blocking.js';
 import type { Guard } from './guard.js';
 import { DependencySets } from './dependencies.js';
 
@@ -60,6 +60,8 @@ export class Chase {
   private readonly stepDep = new Int32Array(64);
   readonly deps = new DependencySets();
   private readonly maxVars: number;
+  /** Blockers verified in earlier rounds (blocking.ts). */
+  private readonly blockers = new BlockerCache();
 
   constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
     this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
@@ -348,7 +350,7 @@ export class Chase {
     // A self-terminating program (blocking off): the plain restricted chase applies one trigger, then the rules run
     // again, so that copies of the new successor can satisfy the other open triggers before they fire.
     const plain = !this.program.blocking;
-    const status = plain ? new Uint8Array(0) : blockedElements(this.store);
+    const status = plain ? new Uint8Array(0) : blockedElements(this.store, this.blockers);
     let applied = 0;
     for (const i of open) {
       const rule = this.loadInstance(list, i);

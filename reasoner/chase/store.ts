@@ -28,6 +28,13 @@ export class FactStore {
   firstChild = new Int32Array(64);
   nextSibling = new Int32Array(64);
   /** Two independent sums of per-predicate random keys over the element's unary rows (its label), and the label size. */
+  /**
+   * A change stamp per element, from one clock that only grows: set anew whenever a unary fact about the element or a
+   * binary fact with it is added or removed, and when its id is (re)used. Equal stamps mean an unchanged
+   * neighbourhood, which lets blocking keep a verified blocker from one round to the next.
+   */
+  stamp = new Int32Array(64);
+  private clock = 0;
   labelHashA = new Int32Array(64);
   labelHashB = new Int32Array(64);
   labelSize = new Int32Array(64);
@@ -89,7 +96,7 @@ export class FactStore {
     this.rep[e] = e; this.parent[e] = parent;
     this.depth[e] = parent < 0 ? 0 : this.depth[parent]! + 1;
     this.firstChild[e] = -1; this.nextSibling[e] = -1;
-    this.labelHashA[e] = 0; this.labelHashB[e] = 0; this.labelSize[e] = 0;
+    this.labelHashA[e] = 0; this.labelHashB[e] = 0; this.labelSize[e] = 0; this.stamp[e] = ++this.clock;
     this.unaryByElement[e] = -1; this.binaryBySubject[e] = -1; this.binaryByObject[e] = -1;
     if (parent >= 0) { this.nextSibling[e] = this.firstChild[parent]!; this.firstChild[parent] = e; }
     this.addUnary(TOP_ID, e, -1);
@@ -139,6 +146,7 @@ export class FactStore {
     this.labelHashA[e] = (this.labelHashA[e]! + this.keyA[pred]!) | 0;
     this.labelHashB[e] = (this.labelHashB[e]! + this.keyB[pred]!) | 0;
     this.labelSize[e]!++;
+    this.stamp[e] = ++this.clock;
     if ((this.unaryCount << 1) > this.unarySlots.length) this.rehashUnary(); else this.unarySlots[i] = row + 1;
     return true;
   }
@@ -184,6 +192,7 @@ export class FactStore {
     this.binaryNextByPO[row] = this.headByPO.get(pred, o); this.headByPO.set(pred, o, row);
     this.binaryNextBySubj[row] = this.binaryBySubject[s]!; this.binaryBySubject[s] = row;
     this.binaryNextByObj[row] = this.binaryByObject[o]!; this.binaryByObject[o] = row;
+    this.stamp[s] = ++this.clock; this.stamp[o] = ++this.clock;
     if ((this.binaryCount << 1) > this.binarySlots.length) this.rehashBinary(); else this.binarySlots[i] = row + 1;
     return true;
   }
@@ -238,6 +247,7 @@ export class FactStore {
       this.headByPO.set(p, o, this.binaryNextByPO[row]!);
       this.binaryBySubject[s] = this.binaryNextBySubj[row]!;
       this.binaryByObject[o] = this.binaryNextByObj[row]!;
+      this.stamp[s] = ++this.clock; this.stamp[o] = ++this.clock;
       this.clearSlot(this.binarySlots, mix3(p, s, o), row);
     }
     this.binaryCount = Math.min(this.binaryCount, m.binary);
@@ -248,6 +258,7 @@ export class FactStore {
       this.labelHashA[e] = (this.labelHashA[e]! - this.keyA[p]!) | 0;
       this.labelHashB[e] = (this.labelHashB[e]! - this.keyB[p]!) | 0;
       this.labelSize[e]!--;
+      this.stamp[e] = ++this.clock;
       this.clearSlot(this.unarySlots, mix2(p, e), row);
     }
     this.unaryCount = Math.min(this.unaryCount, m.unary);
@@ -260,7 +271,7 @@ export class FactStore {
 
   /** Bytes held by the store's arrays. */
   get byteLength(): number {
-    const arrays = [this.rep, this.mergeDep, this.unaryDep, this.binaryDep, this.parent, this.depth, this.firstChild, this.nextSibling, this.labelHashA, this.labelHashB, this.labelSize,
+    const arrays = [this.rep, this.mergeDep, this.unaryDep, this.binaryDep, this.parent, this.depth, this.firstChild, this.nextSibling, this.labelHashA, this.labelHashB, this.labelSize, this.stamp,
       this.unaryByElement, this.binaryBySubject, this.binaryByObject, this.unaryPred, this.unaryElem, this.unaryRule, this.unaryNextByPred,
       this.unaryNextByElem, this.unarySlots, this.binaryPred, this.binarySubj, this.binaryObj, this.binaryRule, this.binaryNextByPred,
       this.binaryNextByPS, this.binaryNextByPO, this.binaryNextBySubj, this.binaryNextByObj, this.binarySlots];
@@ -300,6 +311,7 @@ export class FactStore {
     this.rep = growInt32(this.rep, min); this.mergeDep = growInt32(this.mergeDep, min); this.parent = growInt32(this.parent, min); this.depth = growInt32(this.depth, min);
     this.firstChild = growInt32(this.firstChild, min); this.nextSibling = growInt32(this.nextSibling, min);
     this.labelHashA = growInt32(this.labelHashA, min); this.labelHashB = growInt32(this.labelHashB, min); this.labelSize = growInt32(this.labelSize, min);
+    this.stamp = growInt32(this.stamp, min);
     this.unaryByElement = growInt32(this.unaryByElement, min); this.binaryBySubject = growInt32(this.binaryBySubject, min);
     this.binaryByObject = growInt32(this.binaryByObject, min);
   }
