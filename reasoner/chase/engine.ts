@@ -60,6 +60,8 @@ export class Chase {
   private readonly stepDep = new Int32Array(64);
   readonly deps = new DependencySets();
   private readonly maxVars: number;
+  /** The blocking status of the last round (a hint only: element ids may have been reused since). */
+  private lastBlocked: Uint8Array | null = null;
   /** Blockers verified in earlier rounds (blocking.ts). */
   private readonly blockers = new BlockerCache();
 
@@ -339,10 +341,13 @@ export class Chase {
   generate(deferDeep = false): number {
     const st = this.store, list = this.triggers;
     if (list.length === 0) return 0;
-    // Blocking is computed only when some trigger is still open (it costs a pass over all elements).
-    const open: number[] = [];
+    // Blocking is computed only when some trigger is still open (it costs a pass over all elements). A trigger whose
+    // centre was blocked in the last round is taken as open without testing its head (most of them, in a deep model):
+    // the loop below tests it again against this round's status.
+    const open: number[] = [], last = this.lastBlocked;
     for (let i = this.triggerCursor; i < list.length; i++) {
       const rule = this.loadInstance(list, i);
+      if (rule !== null && last !== null) { const c = this.env[rule.center]!; if (c < last.length && last[c]) { open.push(i); continue; } }
       if (rule !== null && !this.holds(rule)) open.push(i);
       else if (open.length === 0) this.triggerCursor = i + 1;
     }
@@ -351,6 +356,7 @@ export class Chase {
     // again, so that copies of the new successor can satisfy the other open triggers before they fire.
     const plain = !this.program.blocking;
     const status = plain ? new Uint8Array(0) : blockedElements(this.store, this.blockers);
+    this.lastBlocked = plain ? null : status;
     let applied = 0;
     for (const i of open) {
       const rule = this.loadInstance(list, i);
