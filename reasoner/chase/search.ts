@@ -100,9 +100,10 @@ function run(chase: Chase, deferDeep: boolean): boolean {
 }
 
 /**
- * Returns the first focused disjunction that does not hold, else the first recorded one, or -1; advances the cursor over the held prefix. On a
- * self-terminating program (blocking off) equality disjunctions (the ≤n rules) go first: merges are then decided
- * before the merged elements' completion guesses and the copies those bring (README, "A case found by a sweep").
+ * Returns the first focused disjunction that does not hold, else the first recorded one, or -1; advances the cursor
+ * over the held prefix. On a self-terminating program (blocking off) equality disjunctions (the ≤n rules) go first:
+ * merges are then decided before the merged elements' completion guesses and the copies those bring (README, "A case
+ * found by a sweep").
  */
 function nextChoice(chase: Chase, focus: readonly number[] | undefined): number {
   const list = chase.pending;
