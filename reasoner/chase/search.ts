@@ -100,18 +100,13 @@ function run(chase: Chase, deferDeep: boolean): boolean {
 }
 
 /**
- * Returns the first focused disjunction that does not hold, else the first recorded one, or -1; advances the cursor
+ * Returns the first recorded disjunction that does not hold (focused ones first), or -1; advances the cursor
  * over the held prefix. On a self-terminating program (blocking off) equality disjunctions (the ≤n rules) go first:
  * merges are then decided before the merged elements' completion guesses and the copies those bring (README, "A case
  * found by a sweep").
  */
 function nextChoice(chase: Chase, focus: readonly number[] | undefined): number {
   const list = chase.pending;
-  if (focus !== undefined) for (const i of focus) {
-    if (i < chase.pendingCursor || i >= list.length) continue;
-    const rule = chase.loadInstance(list, i);
-    if (rule !== null && !chase.holds(rule)) return i;
-  }
   if (!chase.program.blocking) {
     const rules = chase.program.rules;
     for (let i = chase.pendingCursor; i < list.length; i++) {
@@ -119,6 +114,12 @@ function nextChoice(chase: Chase, focus: readonly number[] | undefined): number 
       const rule = chase.loadInstance(list, i);
       if (rule !== null && !chase.holds(rule)) return i;
     }
+  }
+  // Focused disjunctions after the equality ones: the order the self-terminating program's argument needs stays.
+  if (focus !== undefined) for (const i of focus) {
+    if (i < chase.pendingCursor || i >= list.length) continue;
+    const rule = chase.loadInstance(list, i);
+    if (rule !== null && !chase.holds(rule)) return i;
   }
   let prefix = true;
   for (let i = chase.pendingCursor; i < list.length; i++) {
