@@ -174,16 +174,14 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
     const find = (bad: (c: Chase) => number, budget: number | undefined, partial: boolean, focus?: readonly number[]): Set<string> | null => {
       let model: Set<string> | null = null;
       const hooks = { violated: bad, onModel: (c: Chase) => { model = keyOf(namedFacts(c)); return true; } };
-      if (kept.active) {
-        models += search(chase, guard, hooks, { reverse: keptReverse, resume: kept, keep: kept, budget, keepPartial: partial, focus, deferDeep: true });
-        return model;
+      const resume = kept.active ? kept : undefined;
+      if (!resume) {
+        // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
+        // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
+        keptReverse = reverse && program.blocking;
+        reverse = !reverse;
       }
-      leave(chase, kept);
-      // Alternating the disjunct order makes consecutive models differ more, so each removes more candidates. Not
-      // on a self-terminating program: its completion guesses try "absent" first, which keeps types small and few.
-      keptReverse = reverse && program.blocking;
-      models += search(chase, guard, hooks, { reverse: keptReverse, keep: kept, budget, keepPartial: partial, focus, deferDeep: true });
-      reverse = !reverse;
+      models += search(chase, guard, hooks, { reverse: keptReverse, resume, keep: kept, budget, keepPartial: partial, focus, deferDeep: true });
       return model;
     };
     const keepOnly = (m: Set<string>) => { for (const k of open) if (!m.has(k)) open.delete(k); };
@@ -206,9 +204,9 @@ function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase
     // choices below, so taking the candidates that depend on late choices first keeps each proof short. Each search
     // branches first on the disjunctions the fact depended on (`focus`): after a proof has undone the choices above
     // a shared early one (a hut all its trails end at), the next fact that depends on it is proven by flipping it
-    // again, not after re-deciding every unrelated choice in between. With a
-    // budget, a candidate whose search outgrows it is returned for later (usually one that a model lacks, which costs
-    // redoing the choices above its own).
+    // again, not after re-deciding every unrelated choice in between. With a budget, a candidate whose search
+    // outgrows it is returned for later (usually one that a model lacks, which costs redoing the choices above its
+    // own).
     const oneByOne = (budget?: number): string[] => {
       // Stand in a model first (any, if the last search left none), so that each candidate's dependencies are known.
       if (open.size > 0) { const m = find(() => -1, undefined, true); if (m !== null) keepOnly(m); }
