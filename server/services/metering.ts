@@ -28,8 +28,8 @@ let month = { start: 0, end: 0 };
 /** monthStart(new Date(now)).getTime(), kept until the month changes: the quota step asks on every request. */
 export function monthStartMs(now: number = Date.now()): number {
   if (now < month.start || now >= month.end) {
-    const at = new Date(now);
-    month = { start: Date.UTC(at.getUTCFullYear(), at.getUTCMonth(), 1), end: Date.UTC(at.getUTCFullYear(), at.getUTCMonth() + 1, 1) };
+    const start = monthStart(new Date(now));
+    month = { start: start.getTime(), end: Date.UTC(start.getUTCFullYear(), start.getUTCMonth() + 1, 1) };
   }
   return month.start;
 }
