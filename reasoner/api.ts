@@ -91,8 +91,9 @@ export interface ReasonOptions {
    * How a Horn ontology is evaluated: 'datalog' (default) runs its Datalog rewriting (rewrite/horn, no anonymous
    * element); 'chase' runs the one-rule-per-axiom program with anonymous elements. Disjunctive ontologies always chase.
    * 'rewriting' (any ontology) runs the published rewriting (rewrite/disjunctive) by the plain restricted chase with
-   * dynamic blocking off — the reference the optimised path is tested against; slower, never the default, its
-   * completeness not yet proven (reasoner/README.md, "A case found by a sweep").
+   * dynamic blocking off — the reference the optimised path is tested against; slower, never the default. A run that
+   * merges elements holding copied successor edges, which its exactness argument does not cover, comes with a warning
+   * diagnostic and `timings.copiedMerges` (reasoner/README.md, "The published rewriting").
    */
   readonly path?: 'datalog' | 'chase' | 'rewriting';
 }

@@ -47,6 +47,8 @@ export interface EntailStats {
   components: number;
   branches: number;
   anonymousElements: number;
+  /** Published rewriting only: merges outside its exactness argument (Chase.offTree). */
+  copiedMerges: number;
   models: number;
   cachedComponents: number;
   /** Largest fact store of one component, in bytes (columns, indexes and hash tables). */
@@ -94,7 +96,7 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
   // Classes and properties that occur only in the data are vocabulary too: their facts are output.
   const full: RuleProgram = { ...program, classes: [...program.classes, ...input.classNames], properties: [...program.properties, ...input.propertyNames] };
   const compiled = compileProgram(full);
-  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, models: 0, cachedComponents: 0, storeBytes: 0, threads: 1 };
+  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, copiedMerges: 0, models: 0, cachedComponents: 0, storeBytes: 0, threads: 1 };
   const classIds = input.classNames.map((c) => compiled.unaryIds.get(c) ?? -1);
   const propIds = input.propertyNames.map((p) => compiled.binaryIds.get(p) ?? -1);
   const plain = options.path === 'plain';
@@ -178,7 +180,7 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
       for (let k = 0; k < result.same.length; k += 2) out.same(result.same[k]!, result.same[k + 1]!);
       return undefined;
     }, options.onComponent);
-    stats.branches += outcome.stats.branches; stats.anonymousElements += outcome.stats.anonymousElements; stats.models += outcome.stats.models;
+    stats.branches += outcome.stats.branches; stats.anonymousElements += outcome.stats.anonymousElements; stats.copiedMerges += outcome.stats.copiedMerges; stats.models += outcome.stats.models;
     stats.storeBytes = Math.max(stats.storeBytes, outcome.stats.storeBytes);
     if (outcome.clash !== undefined) return { status: 'inconsistent', clash: outcome.clash, stats };
   } else {
@@ -191,5 +193,6 @@ export async function entail(program: RuleProgram, input: ChaseInput, sink: Enta
   }
   stats.branches += guard.branches;
   stats.anonymousElements += guard.anonymousElements;
+  stats.copiedMerges += guard.copiedMerges;
   return { status: 'ok', stats };
 }

@@ -27,6 +27,8 @@ export class Guard {
   private ticks = 0;
   branches = 0;
   anonymousElements = 0;
+  /** Merges of elements with a copied successor edge on the published rewriting's path (see Chase.offTree). */
+  copiedMerges = 0;
 
   constructor(limits: ResourceLimits = {}, private readonly signal?: AbortSignal, start = Date.now()) {
     this.limits = { ...DEFAULT_LIMITS, ...limits };

@@ -16,7 +16,7 @@ export type WorkerResult = { unary: Int32Array; binary: Int32Array; same: Int32A
 /** Messages from a worker. */
 export type WorkerMessage =
   | { kind: 'result'; index: number; result: WorkerResult }
-  | { kind: 'done'; stats: { branches: number; anonymousElements: number; models: number; storeBytes: number } }
+  | { kind: 'done'; stats: { branches: number; anonymousElements: number; copiedMerges: number; models: number; storeBytes: number } }
   | { kind: 'error'; name: string; message: string };
 
 export interface PoolOptions {
@@ -50,7 +50,7 @@ function startWorker(workerData: unknown): Worker {
  */
 export async function runInWorkers(program: RuleProgram, tasks: readonly ComponentTask[], threads: number, options: PoolOptions,
   onResult: (index: number, result: WorkerResult) => ClashReport | null | undefined, onProgress?: (done: number, total: number) => void | Promise<void>,
-): Promise<{ clash?: ClashReport | null; stats: { branches: number; anonymousElements: number; models: number; storeBytes: number } }> {
+): Promise<{ clash?: ClashReport | null; stats: { branches: number; anonymousElements: number; copiedMerges: number; models: number; storeBytes: number } }> {
   // Largest first, each to the least loaded worker (longest-processing-time scheduling).
   const shares: number[][] = Array.from({ length: threads }, () => []), load = new Array<number>(threads).fill(0);
   const size = (t: ComponentTask) => t.unary.length / 2 + t.binary.length / 3 + 1;
@@ -59,7 +59,7 @@ export async function runInWorkers(program: RuleProgram, tasks: readonly Compone
     for (let k = 1; k < threads; k++) if (load[k]! < load[w]!) w = k;
     shares[w]!.push(i); load[w]! += size(tasks[i]!);
   });
-  const stats = { branches: 0, anonymousElements: 0, models: 0, storeBytes: 0 };
+  const stats = { branches: 0, anonymousElements: 0, copiedMerges: 0, models: 0, storeBytes: 0 };
   const workers: Worker[] = [];
   let done = 0, finished = 0, stopped: { clash?: ClashReport | null; error?: Error } | null = null;
   return new Promise((resolve, reject) => {
@@ -84,7 +84,7 @@ export async function runInWorkers(program: RuleProgram, tasks: readonly Compone
           if (clash !== undefined) { stopped = { clash }; stopAll(); settle(); return; }
           if (onProgress && (done & 63) === 0) void onProgress(done, tasks.length);
         } else if (m.kind === 'done') {
-          stats.branches += m.stats.branches; stats.anonymousElements += m.stats.anonymousElements; stats.models += m.stats.models;
+          stats.branches += m.stats.branches; stats.anonymousElements += m.stats.anonymousElements; stats.copiedMerges += m.stats.copiedMerges; stats.models += m.stats.models;
           stats.storeBytes = Math.max(stats.storeBytes, m.stats.storeBytes);
           if (++finished === threads) { options.signal?.removeEventListener('abort', onAbort); settle(); }
         } else {

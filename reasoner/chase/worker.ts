@@ -30,7 +30,7 @@ try {
   const job = workerData as Job;
   const program = compileProgram(job.program);
   const guard = new Guard(job.limits);
-  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, models: 0, cachedComponents: 0, storeBytes: 0, threads: 1 };
+  const stats: EntailStats = { components: 0, branches: 0, anonymousElements: 0, copiedMerges: 0, models: 0, cachedComponents: 0, storeBytes: 0, threads: 1 };
   job.tasks.forEach((task, k) => {
     const unary = new Ints(), binary = new Ints(), same = new Ints();
     const clash = runComponent(program, task, guard, job.path === 'plain', stats, {
@@ -42,7 +42,7 @@ try {
       post({ kind: 'result', index: job.indexes[k]!, result }, [result.unary.buffer as ArrayBuffer, result.binary.buffer as ArrayBuffer, result.same.buffer as ArrayBuffer]);
     }
   });
-  post({ kind: 'done', stats: { branches: guard.branches, anonymousElements: guard.anonymousElements, models: stats.models, storeBytes: stats.storeBytes } });
+  post({ kind: 'done', stats: { branches: guard.branches, anonymousElements: guard.anonymousElements, copiedMerges: guard.copiedMerges, models: stats.models, storeBytes: stats.storeBytes } });
 } catch (error) {
   const e = error as Error;
   post({ kind: 'error', name: e.name, message: e.message });

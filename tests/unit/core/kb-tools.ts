@@ -50,14 +50,15 @@ export function inputOf(kb: TinyKb): { input: ChaseInput; individuals: string[] 
 
 /**
  * Runs the engine on a rule program and the knowledge base's facts; facts as `C(a)`, `R(a,b)`, `a=b` (internal names
- * left out), or null if inconsistent; also how many anonymous elements the run made.
+ * left out), or null if inconsistent; also how many anonymous elements the run made and, on the published rewriting,
+ * how many merges outside its exactness argument it counted.
  */
 export async function programFacts(
   program: RuleProgram,
   kb: TinyKb,
   limits?: ResourceLimits,
   path: 'optimised' | 'plain' = 'optimised',
-): Promise<{ facts: Set<string> | null; anonymous: number }> {
+): Promise<{ facts: Set<string> | null; anonymous: number; copiedMerges: number }> {
   const { input, individuals } = inputOf(kb);
   const facts = new Set<string>();
   const outcome = await entail(program, input, {
@@ -65,7 +66,7 @@ export async function programFacts(
     binary: (p, s, o) => { if (!isFreshName(p)) facts.add(`${p}(${individuals[s]},${individuals[o]})`); },
     same: (a, b) => facts.add(`${individuals[a]}=${individuals[b]}`),
   }, { guard: new Guard(limits), path });
-  return { facts: outcome.status === 'ok' ? facts : null, anonymous: outcome.stats.anonymousElements };
+  return { facts: outcome.status === 'ok' ? facts : null, anonymous: outcome.stats.anonymousElements, copiedMerges: outcome.stats.copiedMerges };
 }
 
 /** Runs the chase on the one-rule-per-axiom program of the knowledge base; facts as above, or null if inconsistent. */
