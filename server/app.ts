@@ -6,20 +6,24 @@ import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
 import fs from 'node:fs';
 import path from 'node:path';
-import type { IncomingMessage, ServerResponse } from 'node:http';
+import http, { type IncomingMessage, type ServerResponse } from 'node:http';
 import type { AppContext } from './context.js';
 import { setupPassport } from './auth/passport.js';
 import { createCsrf } from './http/csrf.js';
 import { errorHandler, HttpError, notFoundHandler } from './http/errors.js';
 import { mountEarlyRoutes, mountRoutes } from './routes/index.js';
-import { isQueryApiUrl, queryApiApp, TRUST_PROXY } from './v1/app.js';
+import { apiServerOptions, isQueryApiUrl, queryApiApp, TRUST_PROXY } from './v1/app.js';
 import { methodNotAllowed } from './http/methods.js';
+
+const queryApis = new WeakMap<express.Express, express.Express>();
 
 export function createApp(ctx: AppContext): express.Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', TRUST_PROXY);
-  dispatchQueryApi(app, queryApiApp(ctx));
+  const api = queryApiApp(ctx);
+  queryApis.set(app, api);
+  dispatchQueryApi(app, api);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -72,6 +76,12 @@ export function createApp(ctx: AppContext): express.Express {
   app.use(notFoundHandler);
   app.use(errorHandler);
   return app;
+}
+
+/** The HTTP server for an app from createApp: as app.listen makes it, with requests built for the query API (apiServerOptions). */
+export function createServer(app: express.Express): http.Server {
+  const api = queryApis.get(app);
+  return http.createServer(api ? apiServerOptions(api) : {}, app);
 }
 
 type Handle = (req: IncomingMessage, res: ServerResponse, callback?: (error?: unknown) => void) => void;

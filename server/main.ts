@@ -1,5 +1,5 @@
 // The web process: app and API on PORT (default 8080), graceful shutdown on SIGINT/SIGTERM.
-import { createApp } from './app.js';
+import { createApp, createServer } from './app.js';
 import { closeContext, createContext } from './bootstrap.js';
 import { runShutdownHooks } from './lifecycle.js';
 
@@ -12,7 +12,7 @@ try {
 }
 const context = ctx;
 const app = createApp(context);
-const server = app.listen(context.config.port, context.config.host, () => {
+const server = createServer(app).listen(context.config.port, context.config.host, () => {
   console.log(`Thence is serving on ${context.config.publicUrl}`);
 });
 server.on('error', (error) => {

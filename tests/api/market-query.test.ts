@@ -2,7 +2,9 @@
 // Results JSON Format, the OpenAPI document, and every refusal (400, 401, 403, 404, 415).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import supertest from 'supertest';
+import type { AddressInfo } from 'node:net';
 import { createTestApp, type TestApp } from '../support/app.js';
+import { createServer } from '../../server/app.js';
 import { publishedListing, subscriberWithKey, type FactRow, type TestListing } from '../support/market.js';
 import { revokeKey } from '../../server/services/apiKeys.js';
 import { stopMeter } from '../../server/services/metering.js';
@@ -269,5 +271,51 @@ describe('GET /api/v1/openapi.json', () => {
   it('unknown /api/v1 paths answer JSON 404', async () => {
     const res = await supertest(t.app).get('/api/v1/nothing').expect(404);
     expect(res.body.error.code).toBe('not_found');
+  });
+});
+
+describe('the production HTTP server (createServer)', () => {
+  it('answers every kind of request as the app does under supertest, API and main app alike', async () => {
+    // createServer builds requests with the query API's prototypes (server/v1/app.ts, apiServerOptions); the main app
+    // switches them to its own. Same status, body and headers (less the ones that change per request) either way.
+    const server = createServer(t.app);
+    await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+    const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    try {
+      const lookup = `subject=_:r1&predicate=${encodeURIComponent(`${FOAF}name`)}&object=${encodeURIComponent('"Alice"')}`;
+      const requests: [method: 'get' | 'options', path: string, key?: string][] = [
+        ['get', `/api/v1/kbs/${listing.slug}/facts?${lookup}`, auth],
+        ['get', `/api/v1/kbs/${listing.slug}/facts?predicate=${encodeURIComponent(RDF_TYPE)}&limit=2`, auth],
+        ['get', `/api/v1/kbs/${listing.slug}/facts?limit=0`, auth],
+        ['get', `/api/v1/kbs/${listing.slug}/facts`],
+        ['get', `/api/v1/kbs/${other.slug}/facts`, auth],
+        ['get', `/api/v1/kbs/${listing.slug}/sparql?query=${encodeURIComponent(`ASK { <${EX}h00> a <${EX}Port> }`)}`, auth],
+        ['get', `/api/v1/kbs/${listing.slug.toUpperCase()}/facts?limit=1`, auth],
+        ['options', `/api/v1/kbs/${listing.slug}/sparql`],
+        ['get', '/api/v1/openapi.json'],
+        ['get', '/api/v1/nothing'],
+        ['get', '/api/auth/me'],
+        ['get', '/api/listings'],
+        ['get', '/api/nothing'],
+      ];
+      const varying = new Set(['date', 'ratelimit', 'set-cookie', 'etag', 'connection', 'keep-alive']);
+      const view = (res: supertest.Response) => ({
+        status: res.status,
+        body: res.text,
+        headers: Object.fromEntries(Object.entries(res.headers).filter(([name]) => !varying.has(name))),
+      });
+      for (const [method, path, key] of requests) {
+        const send = (target: Parameters<typeof supertest>[0]) => {
+          const test = supertest(target)[method](path);
+          return key ? test.set('Authorization', key) : test;
+        };
+        const viaApp = view(await send(t.app));
+        const viaServer = view(await send(url));
+        expect(viaServer, `${method} ${path}`).toEqual(viaApp);
+      }
+    } finally {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+    }
   });
 });
