@@ -1,13 +1,15 @@
 // The lean Express app that serves /api/v1, dispatched before the main app (server/app.ts): no helmet, session,
-// passport, cookie or body parser or X-Powered-By — and the two GET query routes matched by one regular
-// expression in the app's first middleware, instead of the main router's mount, the API router's header layer and
-// route matching, which cost a visible share of every query's CPU. Every other /api/v1 request (OPTIONS, POST,
-// the OpenAPI document, unknown paths, and any spelling the pattern below does not take: upper case, a trailing
-// slash, %-escapes in the slug, HEAD) goes through the full router with the same handlers, so answers do not change.
-import express, { type Request } from 'express';
+// passport, cookie or body parser or X-Powered-By. The two GET query routes are matched by one regular expression in
+// the app's own `handle`, before its router: their handlers get the request exactly as Express would hand it to them
+// (the app's request and response prototypes, res.locals, req.params, originalUrl and baseUrl), without the router's
+// per-request dispatch — its closures, URL parsing and layer walk were a visible share of every query's CPU. Every other
+// /api/v1 request (OPTIONS, POST, the OpenAPI document, unknown paths, and any spelling the pattern below does not take:
+// upper case, a trailing slash, %-escapes in the slug, HEAD) goes through the router with the same handlers, so answers
+// do not change.
+import express, { type NextFunction, type Request, type Response } from 'express';
 import { IncomingMessage, ServerResponse, type ServerOptions } from 'node:http';
 import type { AppContext } from '../context.js';
-import { errorHandler } from '../http/errors.js';
+import { errorHandler, HttpError } from '../http/errors.js';
 import { setApiHeaders, v1Routes } from './router.js';
 
 /** The settings both apps share (req.ip and req.protocol read the same behind the same proxy). */
@@ -20,6 +22,8 @@ const QUERY_ROUTE = /^\/api\/v1\/kbs\/([a-z0-9]+(?:-[a-z0-9]+)*)\/(facts|sparql)
 export function isQueryApiUrl(url: string): boolean {
   return /^\/api\/v1(?:[/?]|$)/i.test(url);
 }
+
+type Handle = (req: IncomingMessage, res: ServerResponse, callback?: (error?: unknown) => void) => void;
 
 /**
  * Options for http.createServer that build every request and response with the query API app's Express prototypes
@@ -50,14 +54,36 @@ export function queryApiApp(ctx: AppContext): express.Express {
   // ETags stay as in the main app: query answers are written by sendJson (no ETag), the OpenAPI document keeps its own.
   api.set('trust proxy', TRUST_PROXY);
   const routes = v1Routes(ctx);
-  api.use((req: Request, res, next) => {
-    const match = req.method === 'GET' ? QUERY_ROUTE.exec(req.url) : null;
-    if (!match) return next();
-    setApiHeaders(res);
-    req.params = { slug: match[1]! };
-    return (match[2] === 'facts' ? routes.facts : routes.sparql)(req, res, next);
-  });
   api.use('/api/v1', routes.router);
   api.use(errorHandler);
+  const app = api as unknown as { handle: Handle; request: object; response: object };
+  const full = app.handle.bind(api);
+  app.handle = (incoming, outgoing, callback) => {
+    const match = incoming.method === 'GET' ? QUERY_ROUTE.exec(incoming.url!) : null;
+    if (!match) return full(incoming, outgoing, callback);
+    // What app.handle and the router set before a handler runs (express/lib/application.js, router/index.js).
+    const req = incoming as Request, res = outgoing as Response;
+    req.res = res;
+    res.req = req;
+    Object.setPrototypeOf(req, app.request);
+    Object.setPrototypeOf(res, app.response);
+    if (!res.locals) res.locals = Object.create(null);
+    req.originalUrl = req.url;
+    req.baseUrl = '';
+    req.params = { slug: match[1]! };
+    setApiHeaders(res);
+    (match[2] === 'facts' ? routes.facts : routes.sparql)(req, res, afterRoute(req, res));
+  };
   return api;
 }
+
+/**
+ * Where a query route's next() leads: an error goes to the API's error handler, as it would after the router. The
+ * route's last step always answers, so next() without an error does not happen; if it did, it would be the router's
+ * unmatched-path answer.
+ */
+function afterRoute(req: Request, res: Response): NextFunction {
+  return (error?: unknown) => errorHandler(error || new HttpError(404, `No route ${req.method} ${req.path}. See /api/v1/openapi.json.`), req, res, noop);
+}
+
+const noop: NextFunction = () => undefined;
