@@ -19,47 +19,54 @@ const NAMES = { s: 'subject', p: 'predicate', o: 'object' } as const;
 /** Called once with the page, or with the error (an InvalidCursorError before anything is queued, or the statement's); must not throw. */
 export type PageCallback = (error: unknown, page: FactPage | null) => void;
 interface Pending { pattern: FactPattern; after: [number, number, number] | null; limit: number; done: PageCallback }
-interface Shape { storeKey: number; bound: Position[]; cursor: boolean; order: 'spo' | 'pos' | 'osp' }
+interface Shape { storeKey: number; bound: Position[]; cursor: boolean; order: 'spo' | 'pos' | 'osp'; name: string; text: string }
 
 /**
- * The statement for a batch of one shape. Row i of the arrays (WITH ORDINALITY) is lookup i: its bound terms, its
- * cursor's three ids if it has one, and its limit + 1. For each row a LATERAL sub-query does what lookupFacts's own
- * statement does — resolve the bound terms by the dictionary's hash index, walk the fact index from the cursor in
- * order, stop at the limit, read the unbound terms by id — so the answers are the same; ORDER BY restores each
- * lookup's order. Named per (version, shape), so each pooled connection plans it once.
+ * A shape with its statement. Row i of the arrays (WITH ORDINALITY) is lookup i: its bound terms, its cursor's three
+ * ids if it has one, and its limit + 1. For each row a LATERAL sub-query does what lookupFacts's own statement does —
+ * resolve the bound terms by the dictionary's hash index, walk the fact index from the cursor in order, stop at the
+ * limit, read the unbound terms by id — so the answers are the same; ORDER BY restores each lookup's order. Named per
+ * (version, shape), so each pooled connection plans it once; the text is built once per shape, not per batch.
  */
-export function batchStatement(shape: Shape, pending: readonly Pending[]): pg.QueryConfig {
-  const f = factsTable(shape.storeKey), t = termsTable(shape.storeKey), cols = ORDERS[shape.order]!;
-  const arrays: unknown[][] = [], types: string[] = [], names: string[] = [], where: string[] = [];
-  for (const pos of shape.bound) {
-    arrays.push(pending.map((x) => x.pattern[NAMES[pos]]));
+function shapeOf(storeKey: number, bound: Position[], cursor: boolean, order: 'spo' | 'pos' | 'osp'): Shape {
+  const f = factsTable(storeKey), t = termsTable(storeKey), cols = ORDERS[order]!;
+  const types: string[] = [], names: string[] = [], where: string[] = [];
+  for (const pos of bound) {
     types.push('text[]');
     names.push(`b_${pos}`);
     where.push(`f.${pos} = (SELECT id FROM ${t} WHERE term = q.b_${pos})`);
   }
-  if (shape.cursor) {
+  if (cursor) {
     for (let c = 0; c < 3; c++) {
-      arrays.push(pending.map((x) => x.after![c]));
       types.push('int[]');
       names.push(`c${c}`);
     }
     where.push(`(f.${cols[0]}, f.${cols[1]}, f.${cols[2]}) > (q.c0, q.c1, q.c2)`);
   }
-  arrays.push(pending.map((x) => x.limit + 1));
   types.push('int[]');
   names.push('lim');
-  const pattern = Object.fromEntries(shape.bound.map((pos) => [NAMES[pos], ''])) as FactPattern;
+  const pattern = Object.fromEntries(bound.map((pos) => [NAMES[pos], ''])) as FactPattern;
   const text = `SELECT q.i::int AS i, r.* FROM unnest(${types.map((ty, n) => `$${n + 1}::${ty}`).join(', ')}) WITH ORDINALITY AS q(${names.join(', ')}, i)
-    CROSS JOIN LATERAL (SELECT ${selectList(shape.storeKey, pattern).join(', ')} FROM ${f} f
+    CROSS JOIN LATERAL (SELECT ${selectList(storeKey, pattern).join(', ')} FROM ${f} f
       ${where.length ? 'WHERE ' + where.join(' AND ') : ''}
       ORDER BY f.${cols[0]}, f.${cols[1]}, f.${cols[2]} LIMIT q.lim) r
     ORDER BY q.i, r.${cols[0]}, r.${cols[1]}, r.${cols[2]}`;
-  const key = `${shape.bound.join('')}${shape.cursor ? 'c' : ''}`;
-  return { name: `thence-facts-batch-${shape.storeKey}-${key || 'all'}`, text, values: arrays };
+  const key = `${bound.join('')}${cursor ? 'c' : ''}`;
+  return { storeKey, bound, cursor, order, name: `thence-facts-batch-${storeKey}-${key || 'all'}`, text };
+}
+
+/** The statement for a batch of one shape: the shape's named statement with the batch's arrays (see shapeOf). */
+export function batchStatement(shape: Shape, pending: readonly Pending[]): pg.QueryConfig {
+  const arrays: unknown[][] = [];
+  for (const pos of shape.bound) arrays.push(pending.map((x) => x.pattern[NAMES[pos]]));
+  if (shape.cursor) for (let c = 0; c < 3; c++) arrays.push(pending.map((x) => x.after![c]));
+  arrays.push(pending.map((x) => x.limit + 1));
+  return { name: shape.name, text: shape.text, values: arrays };
 }
 
 export class FactLookupBatcher {
   private readonly queues = new Map<string, { shape: Shape; pending: Pending[] }>();
+  private readonly shapes = new Map<string, Shape>();
   private scheduled = false;
   private readonly flushAll = () => {
     this.scheduled = false;
@@ -101,8 +108,13 @@ export class FactLookupBatcher {
     const key = `${storeKey}:${s ? 's' : ''}${p ? 'p' : ''}${o ? 'o' : ''}:${after ? 'c' : ''}`;
     let queue = this.queues.get(key);
     if (!queue) {
-      const bound = (['s', 'p', 'o'] as const).filter((pos) => pattern[NAMES[pos]] !== undefined);
-      this.queues.set(key, (queue = { shape: { storeKey, bound, cursor: after !== null, order }, pending: [] }));
+      let shape = this.shapes.get(key);
+      if (!shape) {
+        if (this.shapes.size > 10_000) this.shapes.clear();
+        const bound = (['s', 'p', 'o'] as const).filter((pos) => pattern[NAMES[pos]] !== undefined);
+        this.shapes.set(key, (shape = shapeOf(storeKey, bound, after !== null, order)));
+      }
+      this.queues.set(key, (queue = { shape, pending: [] }));
     }
     queue.pending.push({ pattern, after, limit, done });
     if (!this.scheduled) {

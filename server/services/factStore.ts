@@ -160,16 +160,15 @@ function lookupSql(storeKey: number, pattern: FactPattern, where: string[], cols
     LIMIT $${limitParam}`;
 }
 
+const POSITION_NAMES = [['s', 'subject'], ['p', 'predicate'], ['o', 'object']] as const;
+
 /** The columns a lookup returns for fact table alias f: ids and asserted, plus the term of each unbound position. */
 export function selectList(storeKey: number, pattern: FactPattern): string[] {
   const terms = termsTable(storeKey);
   const select = ['f.asserted', 'f.s', 'f.p', 'f.o'];
-  const open = (col: Position, name: 'subject' | 'predicate' | 'object') => {
+  for (const [col, name] of POSITION_NAMES) {
     if (pattern[name] === undefined) select.push(`(SELECT t.term FROM ${terms} t WHERE t.id = f.${col}) AS ${name}`);
-  };
-  open('s', 'subject');
-  open('p', 'predicate');
-  open('o', 'object');
+  }
   return select;
 }
 
