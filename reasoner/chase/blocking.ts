@@ -8,9 +8,10 @@ import type { FactStore } from './store.js';
  * Pairwise anywhere blocking (Motik et al. 2009, Def. 4.2, as we read it): an anonymous element y whose parent y′ is
  * anonymous is directly blocked by an older, not blocked z with parent z′ when L(y) = L(z), L(y′) = L(z′) and the
  * edge labels y′→y, y→y′ equal z′→z, z→z′; descendants of a blocked element are indirectly blocked.
- * Returns a byte per element (1 = blocked).
+ * `single`: L(y) = L(z) is enough — for programs without ≈ heads (no ≤n), as in tableaux for DLs with inverse roles
+ * but no number restrictions (README, "Blocking"). Returns a byte per element (1 = blocked).
  */
-export function blockedElements(st: FactStore, cache?: BlockerCache): Uint8Array {
+export function blockedElements(st: FactStore, cache?: BlockerCache, single = false): Uint8Array {
   const status = new Uint8Array(st.elementCount), seen = new Map<number, number>();
   cache?.reserve(st.elementCount);
   for (let y = st.named; y < st.elementCount; y++) {
@@ -18,9 +19,15 @@ export function blockedElements(st: FactStore, cache?: BlockerCache): Uint8Array
     const p = st.parent[y]!;
     if (p < st.named) continue;
     if (status[p]) { status[y] = 1; continue; }
-    const key = mix2(mix2(mix2(st.labelHashA[y]!, st.labelHashB[y]!), mix2(st.labelHashA[p]!, st.labelHashB[p]!)), edgeHash(st, p, y));
+    const key = single ? mix2(st.labelHashA[y]!, st.labelHashB[y]!) : mix2(mix2(mix2(st.labelHashA[y]!, st.labelHashB[y]!), mix2(st.labelHashA[p]!, st.labelHashB[p]!)), edgeHash(st, p, y));
     const z = seen.get(key);
     if (z === undefined) { seen.set(key, y); continue; }
+    if (single) {
+      // The cache compares the stamps of y and z only (the parents play no part).
+      if (cache?.holds(st, y, y, z, z)) { status[y] = 1; continue; }
+      if (sameLabel(st, y, z)) { status[y] = 1; cache?.record(st, y, y, z, z); }
+      continue;
+    }
     const q = st.parent[z]!;
     if (cache?.holds(st, y, p, z, q)) { status[y] = 1; continue; }
     if (sameLabel(st, y, z) && sameLabel(st, p, q) && sameEdges(st, p, y, q, z)) { status[y] = 1; cache?.record(st, y, p, z, q); }

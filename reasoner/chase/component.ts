@@ -135,6 +135,7 @@ const GROUP = 512;
  */
 function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; live?: Chase; clash?: ClashReport | null } {
   const chase = new Chase(program, named, guard);
+  chase.singleBlocking = !plain && !program.equalities;
   load(chase);
   if (chase.clash !== null) return { clash: clashReport(chase) };
   let firstClash: ClashReport | null | undefined;

@@ -69,6 +69,8 @@ export class Chase {
   private lastBlocked: Uint8Array | null = null;
   /** Blockers verified in earlier rounds (blocking.ts). */
   private readonly blockers = new BlockerCache();
+  /** Block on the element's label alone (blocking.ts): set by the optimised path for programs without ≈ heads. */
+  singleBlocking = false;
 
   constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
     this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
@@ -374,7 +376,7 @@ export class Chase {
     // A self-terminating program (blocking off): the plain restricted chase applies one trigger, then the rules run
     // again, so that copies of the new successor can satisfy the other open triggers before they fire.
     const plain = !this.program.blocking;
-    const status = plain ? new Uint8Array(0) : blockedElements(this.store, this.blockers);
+    const status = plain ? new Uint8Array(0) : blockedElements(this.store, this.blockers, this.singleBlocking);
     this.lastBlocked = plain ? null : status;
     let applied = 0;
     for (const i of open) {

@@ -58,6 +58,8 @@ export interface CompiledProgram {
   readonly blocking: boolean;
   /** Binary id of SUCCESSOR when the rules read it (recorded for every created element), else -1. */
   readonly successor: number;
+  /** Some rule head has ≈ (the ≤n rules): dynamic blocking must then be pairwise (blocking.ts). */
+  readonly equalities: boolean;
 }
 
 /** Orders atoms greedily: fully bound first, then those sharing a bound variable, scans last. */
@@ -132,5 +134,6 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
     else if (a.kind === BINARY) readersOfBinary[a.pred]!.push([r.id, i]);
   });
   const blocking = program.blocking !== false;
-  return { rules, unaryIds, binaryIds, unaryNames, binaryNames, readersOfUnary, readersOfBinary, blocking, successor: blocking ? -1 : binaryIds.get(SUCCESSOR) ?? -1 };
+  const equalities = rules.some((r) => r.head.some((d) => d.atoms.some((a) => a.kind === EQUAL)));
+  return { rules, unaryIds, binaryIds, unaryNames, binaryNames, readersOfUnary, readersOfBinary, blocking, successor: blocking ? -1 : binaryIds.get(SUCCESSOR) ?? -1, equalities };
 }

@@ -30,8 +30,11 @@ export function hubTrailNetwork(trails: number, perHut: number, seed = 5): strin
   return lines.join('\n') + '\n';
 }
 
-/** A random TBox (a class tree, property inclusions, inverses, functional properties, ∃, ∀, ⊔, ≥2, ≤2, inverse ∃, domains). */
-export function richTbox(classes: number, properties: number, individuals: number, seed: number): { ofn: string; nt: string } {
+/**
+ * A random TBox (a class tree, property inclusions, inverses, functional properties, ∃, ∀, ⊔, ≥2, ≤2, inverse ∃,
+ * domains). `atMost` false: no functional property and ∃ instead of ≤2 (the same random draws otherwise).
+ */
+export function richTbox(classes: number, properties: number, individuals: number, seed: number, atMost = true): { ofn: string; nt: string } {
   const next = random(seed), pick = (n: number) => Math.floor(next() * n);
   const C = (i: number) => `:C${i}`, P = (i: number) => `:p${i}`;
   const ax: string[] = [];
@@ -39,7 +42,7 @@ export function richTbox(classes: number, properties: number, individuals: numbe
   for (let i = 1; i < properties; i++) if (next() < 0.3) ax.push(`SubObjectPropertyOf(${P(i)} ${P(pick(i))})`);
   for (let i = 0; i < properties; i++) if (next() < 0.2) ax.push(`InverseObjectProperties(${P(i)} :inverse${i})`);
   const functional = new Set<number>();
-  for (let i = 0; i < properties; i++) if (next() < 0.15) { functional.add(i); ax.push(`FunctionalObjectProperty(${P(i)})`); }
+  for (let i = 0; i < properties; i++) if (next() < 0.15 && atMost) { functional.add(i); ax.push(`FunctionalObjectProperty(${P(i)})`); }
   const free = [...Array(properties).keys()].filter((i) => !functional.has(i));
   for (let k = 0; k < classes; k++) {
     const a = C(pick(classes)), b = C(pick(classes)), c = C(pick(classes)), r = P(pick(properties)), t = next();
@@ -48,7 +51,7 @@ export function richTbox(classes: number, properties: number, individuals: numbe
     else if (t < 0.5) ax.push(`SubClassOf(${a} ObjectAllValuesFrom(${r} ${b}))`);
     else if (t < 0.65) ax.push(`SubClassOf(${a} ObjectUnionOf(${b} ${c}))`);
     else if (t < 0.75) ax.push(`SubClassOf(ObjectIntersectionOf(${a} ${b}) ${c})`);
-    else if (t < 0.8) ax.push(`SubClassOf(${a} ObjectMaxCardinality(2 ${r} ${b}))`);
+    else if (t < 0.8) ax.push(atMost ? `SubClassOf(${a} ObjectMaxCardinality(2 ${r} ${b}))` : `SubClassOf(${a} ObjectSomeValuesFrom(${r} ${b}))`);
     else if (t < 0.85) ax.push(`SubClassOf(${a} ObjectMinCardinality(2 ${P(free[pick(free.length)] ?? 0)} ${b}))`);
     else if (t < 0.9) ax.push(`SubClassOf(${a} ObjectSomeValuesFrom(ObjectInverseOf(${r}) ${b}))`);
     else ax.push(`ObjectPropertyDomain(${r} ${a})`);
@@ -85,11 +88,12 @@ export async function searchShapes(): Promise<void> {
       fs.writeFileSync(file, hubTrailNetwork(trails, perHut));
       await timed(GLACIER, file, `trail network, ${trails} trails, ${perHut} per hut (one component)`);
     }
-    for (const [classes, seed] of [[40, 5], [40, 6], [80, 2]] as const) {
-      const { ofn, nt } = richTbox(classes, 6, 5, seed);
-      const o = path.join(dir, `rich-${classes}-${seed}.ofn`), d = path.join(dir, `rich-${classes}-${seed}.nt`);
+    for (const [classes, seed, atMost] of [[40, 5, true], [40, 6, true], [80, 2, true], [40, 4, false], [40, 5, false]] as const) {
+      const { ofn, nt } = richTbox(classes, 6, 5, seed, atMost);
+      const name = `rich-${classes}-${seed}${atMost ? '' : '-no-max'}`;
+      const o = path.join(dir, `${name}.ofn`), d = path.join(dir, `${name}.nt`);
       fs.writeFileSync(o, ofn); fs.writeFileSync(d, nt);
-      await timed(o, d, `rich random TBox, ${classes} classes (${ofn.split('\n').length - 3} axioms), 5 individuals, seed ${seed}`);
+      await timed(o, d, `rich random TBox${atMost ? '' : ' without ≤n'}, ${classes} classes (${ofn.split('\n').length - 3} axioms), 5 individuals, seed ${seed}`);
     }
   } finally { fs.rmSync(dir, { recursive: true, force: true }); }
 }
