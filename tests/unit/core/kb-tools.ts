@@ -114,10 +114,11 @@ export function tinyKb(shape: KbShape): fc.Arbitrary<TinyKb> {
     fc.tuple(fc.array(className, { minLength: 0, maxLength: 2 }), heads).map(([b, h]) => sub([...new Set(b)], [...new Set(h)])),
     fc.tuple(fc.array(className, { minLength: 1, maxLength: 2 }), className).map(([b, h]) => sub([...new Set(b)], [h])),
     fc.tuple(className, prop, fc.option(className, { freq: 8 })).map(([a, r, b]) => only(a, r, b)),
+    // Kept in its place (the order of the kinds fixes what each seed of the suites draws).
+    ...(shape.atMost === false ? [] : [fc.tuple(className, fc.integer({ min: 0, max: shape.disjunctive ? 2 : 1 }), prop, filler).map(([a, n, r, b]) => atMost(a, n, r, b))]),
     fc.tuple(prop, prop).map(([r, s]) => incl(r, s)),
     fc.tuple(prop, prop).filter(([r, s]) => r.name !== s.name).map(([r, s]) => disjointRoles(r, s)),
   ];
-  if (shape.atMost !== false) kinds.push(fc.tuple(className, fc.integer({ min: 0, max: shape.disjunctive ? 2 : 1 }), prop, filler).map(([a, n, r, b]) => atMost(a, n, r, b)));
   if (shape.existential) {
     const pair = shape.acyclic
       ? fc.tuple(cls, cls).filter(([i, j]) => i < j).map(([i, j]) => [`A${i}`, `A${j}`] as const)
