@@ -7,6 +7,7 @@ import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
 import { BlockerCache, blockedElements } from './blocking.js';
 import type { Guard } from './guard.js';
 import { DependencySets } from './dependencies.js';
+import { countedSuccessors, forEachCentre, hasDistinctSubset, pickViolation } from './counting.js';
 
 /** What closed a branch: the rule whose body matched (constraint, or an equality against ≉) and the matched elements. */
 export interface Clash {
@@ -71,11 +72,26 @@ export class Chase {
   private readonly blockers = new BlockerCache();
   /** Block on the element's label alone (blocking.ts): set by the optimised path for programs without ≈ heads. */
   singleBlocking = false;
+  /** The rules with a counting body (≤n, counting.ts), and the (rule, centre) pairs to count again this round. */
+  private readonly countingRules: readonly CompiledRule[];
+  /** Constraints on the classes of one element (disjointness): checked in `merge` before edges are rewritten. */
+  private readonly classConstraints: readonly CompiledRule[];
+  private readonly countQueue: number[] = [];
+  private readonly countQueued = new Set<number>();
+  /** Per counting rule: centre → index of its newest pending instance (checked before another is recorded). */
+  private readonly countingOpen = new Map<number, Map<number, number>>();
+  private readonly counted: number[] = [];
+  private readonly countedDeps: number[] = [];
+  private readonly seen = new Set<number>();
+  /** Join steps taken, so that long joins check the guard too. */
+  private joinSteps = 0;
 
   constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
     this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
     this.maxVars = Math.max(1, ...program.rules.map((r) => r.vars));
     this.env = new Int32Array(this.maxVars);
+    this.countingRules = program.rules.filter((r) => r.countingBody !== null);
+    this.classConstraints = program.rules.filter((r) => r.shape === 'constraint' && r.body.every((a) => a.kind === UNARY && a.a === 0));
   }
 
   mark(): ChaseMark {
@@ -87,6 +103,7 @@ export class Chase {
     this.triggers.truncate(m.triggers); this.pending.truncate(m.pending); this.pendingCursor = m.pendingCursor; this.triggerCursor = m.triggerCursor;
     this.deltaUnary = Math.min(this.deltaUnary, this.store.unaryCount);
     this.deltaBinary = Math.min(this.deltaBinary, this.store.binaryCount);
+    this.countQueue.length = 0; this.countQueued.clear();
     this.clash = null;
   }
 
@@ -108,16 +125,25 @@ export class Chase {
    * older; the merged-away element's facts are rewritten onto the representative, and if it was anonymous its
    * descendants are pruned (which keeps the forest shape and termination). Returns false on a clash with ≉.
    */
-  merge(a: number, b: number, rule: number, env: readonly number[], dep = 0): boolean {
+  merge(a: number, b: number, rule: number, env: ArrayLike<number>, dep = 0): boolean {
     const st = this.store, deps = this.deps;
     dep = deps.union(dep, deps.union(this.chainDep(a), this.chainDep(b)));
     a = st.find(a); b = st.find(b);
     if (a < 0 || b < 0 || a === b) return true;
     const to = Math.min(a, b), from = Math.max(a, b); // named ids come first, and older anonymous ids are smaller
+    const known = st.binaryRow(DISTINCT_ID, a, b);
+    if (known >= 0) { this.clash = { rule, env: Array.from(env), distinct: [to, from], dep: deps.union(dep, st.binaryDep[known]!) }; return false; }
     if (this.program.successor >= 0 && (this.offTree(from) || this.offTree(to))) this.guard.copiedMerges++;
     st.setRep(from, to, dep);
     if (from >= st.named) this.prune(from, dep);
     for (let r = st.firstUnaryAbout(from); r >= 0; r = st.nextUnaryByElem(r)) st.addUnary(st.unaryPred[r]!, to, st.unaryRule[r]!, deps.union(st.unaryDep[r]!, dep));
+    // Disjoint classes met in one element close the branch before its edges are rewritten (a merge tried and undone
+    // thousands of times under ≤n costs its classes only).
+    for (const c of this.classConstraints) {
+      let d = 0;
+      for (const a of c.body) { const r = st.unaryRow(a.pred, to); if (r < 0) { d = -1; break; } d = deps.union(d, st.unaryDep[r]!); }
+      if (d >= 0) { this.clash = { rule: c.id, env: [to], dep: d }; return false; }
+    }
     // The successor relation is not carried over (blocking off): the merged-away element was created for its
     // predecessor, its representative was not, so the relation stays a forest and copies never include a merged one.
     const succ = this.program.successor;
@@ -132,8 +158,49 @@ export class Chase {
       if (s >= 0) st.addBinary(st.binaryPred[r]!, s, to, st.binaryRule[r]!, deps.union(deps.union(st.binaryDep[r]!, dep), this.chainDep(s0)));
     }
     const clashRow = st.binaryRow(DISTINCT_ID, to, to);
-    if (clashRow >= 0) { this.clash = { rule, env: [...env], distinct: [to, from], dep: deps.union(dep, st.binaryDep[clashRow]!) }; return false; }
+    if (clashRow >= 0) { this.clash = { rule, env: Array.from(env), distinct: [to, from], dep: deps.union(dep, st.binaryDep[clashRow]!) }; return false; }
+    // Successors that were two may now be one (no new row says so): the ≤n centres around `to` are counted again.
+    for (const r of this.countingRules) { this.queueCount(r.id, to); forEachCentre(st, r.countingBody!, to, (c) => this.queueCount(r.id, c)); }
     return true;
+  }
+
+  private queueCount(rule: number, centre: number): void {
+    const key = centre * this.program.rules.length + rule;
+    if (this.countQueued.has(key)) return;
+    this.countQueued.add(key); this.countQueue.push(rule, centre);
+  }
+
+  /** A delta row read by a ≤n body: queues the centres whose successors it may have changed. */
+  private queueCounting(rule: CompiledRule, i: number, row: number): void {
+    const t = rule.countingBody!, atom = rule.body[i]!, st = this.store;
+    if (atom.kind !== UNARY) this.queueCount(rule.id, atom.a === t.centre ? st.binarySubj[row]! : st.binaryObj[row]!);
+    else if (atom.a === t.centre) this.queueCount(rule.id, st.unaryElem[row]!);
+    else forEachCentre(st, t, st.unaryElem[row]!, (c) => this.queueCount(rule.id, c));
+  }
+
+  /**
+   * Counts the successors of a ≤n centre (counting.ts) and, when more than n are distinct elements and the centre has
+   * no instance still open, buffers one instance of the rule for `applyAll`, as a join would buffer a match.
+   */
+  private countingMatch(rule: CompiledRule, x: number): void {
+    const t = rule.countingBody!, st = this.store, deps = this.deps;
+    let dep = 0;
+    for (const p of t.centreClasses) { const r = st.unaryRow(p, x); if (r < 0) return; dep = deps.union(dep, st.unaryDep[r]!); }
+    const open = this.countingOpen.get(rule.id)?.get(x);
+    if (open !== undefined && open >= this.pendingCursor && open < this.pending.length && this.pending.rules[open] === rule.id) {
+      const r = this.loadInstance(this.pending, open);
+      if (r !== null && this.env[t.centre] === x && !this.holds(r)) return;
+    }
+    const ys = this.counted, yDeps = this.countedDeps;
+    ys.length = 0; yDeps.length = 0;
+    countedSuccessors(st, t, x, ys, yDeps, deps);
+    if (ys.length < t.ys.length) return;
+    const pick = pickViolation(st, ys, t.ys.length);
+    const env = this.env;
+    env[t.centre] = x;
+    pick.forEach((k, i) => { env[t.ys[i]!] = ys[k]!; dep = deps.union(dep, yDeps[k]!); });
+    this.out.push(rule.id, dep);
+    for (let v = 0; v < rule.bodyVars; v++) this.out.push(env[v]!);
   }
 
   /**
@@ -159,7 +226,7 @@ export class Chase {
   /** Runs the non-generating rules to a fixpoint over the rows added since the last call. Returns false on a clash. */
   saturate(): boolean {
     const st = this.store, prog = this.program;
-    while (this.deltaUnary < st.unaryCount || this.deltaBinary < st.binaryCount) {
+    while (this.deltaUnary < st.unaryCount || this.deltaBinary < st.binaryCount || this.countQueue.length > 0) {
       this.guard.check(st);
       const u0 = this.deltaUnary, u1 = st.unaryCount, b0 = this.deltaBinary, b1 = st.binaryCount;
       this.out.length = 0;
@@ -173,6 +240,12 @@ export class Chase {
         const readers = prog.readersOfBinary[st.binaryPred[row]!]!;
         for (let k = 0; k < readers.length; k++) this.fromDelta(prog.rules[readers[k]![0]]!, readers[k]![1], row, u0, b0);
       }
+      const q = this.countQueue;
+      for (let k = 0; k < q.length; k += 2) {
+        const x = st.find(q[k + 1]!);
+        if (x >= 0) this.countingMatch(prog.rules[q[k]!]!, x);
+      }
+      q.length = 0; this.countQueued.clear();
       this.deltaUnary = u1; this.deltaBinary = b1;
       if (!this.applyAll()) return false;
     }
@@ -181,6 +254,7 @@ export class Chase {
 
   /** Matches the rule with body atom `i` bound to the delta row, atoms before i to old rows, atoms after i to any. */
   private fromDelta(rule: CompiledRule, i: number, row: number, oldUnary: number, oldBinary: number): void {
+    if (rule.countingBody !== null) { this.queueCounting(rule, i, row); return; }
     const st = this.store, env = this.env, atom = rule.body[i]!;
     if (atom.kind === UNARY) { env[atom.a] = st.unaryElem[row]!; this.stepDep[0] = st.unaryDep[row]!; }
     else {
@@ -207,6 +281,7 @@ export class Chase {
    */
   join(plan: readonly JoinStep[], k: number, deltaIndex: number, oldUnary: number, oldBinary: number, onMatch: () => boolean, bound = -1): boolean {
     if (k === plan.length) return onMatch();
+    if ((++this.joinSteps & 8191) === 0) this.guard.check();
     const st = this.store, env = this.env, step = plan[k]!, a = step.atom;
     const old = step.bodyIndex >= 0 && step.bodyIndex < deltaIndex;
     const limitU = old ? oldUnary : 0x7fffffff, limitB = old ? oldBinary : 0x7fffffff;
@@ -287,11 +362,18 @@ export class Chase {
           return false;
         case 'equality':
           for (const a of rule.head[0]!.atoms) {
-            if (!this.merge(env[a.a]!, env[a.b]!, rule.id, Array.from(env.subarray(0, rule.bodyVars)), dep)) return false;
+            if (!this.merge(env[a.a]!, env[a.b]!, rule.id, env.subarray(0, rule.bodyVars), dep)) return false;
           }
           break;
         case 'disjunctive':
-          if (!this.holds(rule)) this.pending.push(rule.id, env, rule.bodyVars, dep);
+          if (!this.holds(rule)) {
+            this.pending.push(rule.id, env, rule.bodyVars, dep);
+            if (rule.countingBody !== null) {
+              let open = this.countingOpen.get(rule.id);
+              if (open === undefined) this.countingOpen.set(rule.id, (open = new Map()));
+              open.set(env[rule.countingBody.centre]!, this.pending.length - 1);
+            }
+          }
           break;
         case 'existential':
           if (!this.holds(rule)) this.triggers.push(rule.id, env, rule.bodyVars, dep);
@@ -317,7 +399,20 @@ export class Chase {
   /** Returns true if some head disjunct of the rule already holds for the body match in env (restricted chase test). */
   holds(rule: CompiledRule): boolean {
     const st = this.store, env = this.env;
+    if (rule.pairwiseEq !== null) {
+      const seen = this.seen;
+      seen.clear();
+      for (const v of rule.pairwiseEq) { const e = st.find(env[v]!); if (seen.has(e)) return true; seen.add(e); }
+      return false;
+    }
     for (const d of rule.head) {
+      if (d.counting !== null) {
+        const c = st.find(env[d.counting.centre]!), ys = this.counted;
+        ys.length = 0;
+        if (c >= 0) countedSuccessors(st, d.counting, c, ys, null, null);
+        if (c >= 0 && hasDistinctSubset(st, ys, d.counting.ys.length)) return true;
+        continue;
+      }
       let eqOk = true;
       for (const a of d.atoms) if (a.kind === EQUAL && st.find(env[a.a]!) !== st.find(env[a.b]!)) { eqOk = false; break; }
       if (!eqOk) continue;
@@ -345,7 +440,7 @@ export class Chase {
 
   /** Applies head disjunct `d` of the rule loaded in env. Returns false on a clash. */
   applyDisjunct(rule: CompiledRule, d: number, dep: number): boolean {
-    const env = Array.from(this.env.subarray(0, rule.bodyVars));
+    const env = this.env.subarray(0, rule.bodyVars); // copied only into a clash (merge reads, never writes, env)
     for (const a of rule.head[d]!.atoms) {
       if (a.kind === EQUAL) { if (!this.merge(this.env[a.a]!, this.env[a.b]!, rule.id, env, dep)) return false; }
       else this.addAtom(a, rule.id, dep);

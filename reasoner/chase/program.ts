@@ -24,8 +24,25 @@ export interface JoinStep {
 export interface CompiledDisjunct {
   readonly exists: readonly number[];
   readonly atoms: readonly CompiledAtom[];
-  /** Join order that tests whether the disjunct already holds for a body match (restricted chase). */
+  /** Join order that tests whether the disjunct already holds for a body match (restricted chase); unused if counting. */
   readonly test: readonly JoinStep[];
+  /** The head of ≥n R.B (n ≥ 2): tested by counting (counting.ts), not by a join of its n + n(n−1)/2 atoms. */
+  readonly counting: CountingTemplate | null;
+}
+
+/**
+ * The shape of a number restriction's rule, read by counting (counting.ts): the successors y₁…y_m of a centre c, each
+ * with the same links to c and the same classes. A ≥n head has m = n and yᵢ ≉ yⱼ for every pair; a ≤n body has
+ * m = n + 1, classes of c, and one disjunct yᵢ ≈ yⱼ for every pair.
+ */
+export interface CountingTemplate {
+  readonly centre: number;
+  readonly ys: readonly number[];
+  /** R(c, y) (out) or R(y, c) for each link; at least one. */
+  readonly links: readonly { readonly pred: number; readonly out: boolean }[];
+  readonly classes: readonly number[];
+  /** Classes the centre must have (≤n bodies; none for heads). */
+  readonly centreClasses: readonly number[];
 }
 
 export interface CompiledRule {
@@ -42,6 +59,16 @@ export interface CompiledRule {
   readonly center: number;
   /** Slots of the variables the rule is symmetric in: only matches with increasing elements are kept. */
   readonly symmetric: readonly number[];
+  /** The body of ≤n R.B (n ≥ 1): matched by counting each centre's successors (counting.ts); `plans` is then empty. */
+  readonly countingBody: CountingTemplate | null;
+  /** When the head is yᵢ ≈ yⱼ for every pair of these slots (≤n): it holds iff two of them share a representative. */
+  readonly pairwiseEq: readonly number[] | null;
+  /**
+   * The head's first `quiet` disjuncts lead to no existential rule (`generatingClasses`); the others follow them, in
+   * the rule's order. A search tries the quiet ones first, either way round (search.ts), so that an element is not
+   * given successors — n of them for ≥n — where a disjunct that needs none would do.
+   */
+  readonly quiet: number;
   readonly rule: Rule;
 }
 
@@ -80,6 +107,85 @@ function order(atoms: readonly { atom: CompiledAtom; bodyIndex: number }[], boun
   return out;
 }
 
+/**
+ * Recognises a number restriction's atoms over successor slots `ys` (counting.ts): every atom is a class of some y, a
+ * link between a y and the one other variable (the centre), yᵢ ≉ yⱼ (heads: for every pair), or a class of the centre
+ * (bodies); every y has the same links and classes. Returns null for any other shape (the rule is then joined).
+ */
+function countingTemplate(atoms: readonly CompiledAtom[], ys: readonly number[], head: boolean): CountingTemplate | null {
+  if (ys.length < 2) return null;
+  const yset = new Set(ys);
+  if (yset.size !== ys.length) return null;
+  let centre = -1;
+  const isCentre = (v: number) => { if (centre < 0) centre = v; return centre === v; };
+  const per = new Map<number, Set<string>>(ys.map((y) => [y, new Set()]));
+  const centreClasses: number[] = [], pairs = new Set<number>();
+  for (const a of atoms) {
+    if (a.kind === UNARY) {
+      if (yset.has(a.a)) per.get(a.a)!.add(`u${a.pred}`);
+      else if (!head && isCentre(a.a)) centreClasses.push(a.pred);
+      else return null;
+    } else if (a.kind === BINARY && a.pred === DISTINCT_ID) {
+      if (!head || !yset.has(a.a) || !yset.has(a.b) || a.a === a.b) return null;
+      pairs.add(Math.min(a.a, a.b) * 65536 + Math.max(a.a, a.b));
+    } else if (a.kind === BINARY && yset.has(a.b) && !yset.has(a.a) && isCentre(a.a)) per.get(a.b)!.add(`o${a.pred}`);
+    else if (a.kind === BINARY && yset.has(a.a) && !yset.has(a.b) && isCentre(a.b)) per.get(a.a)!.add(`i${a.pred}`);
+    else return null;
+  }
+  if (head && pairs.size !== (ys.length * (ys.length - 1)) / 2) return null;
+  const shape = [...per.get(ys[0]!)!].sort().join(',');
+  for (const y of ys) if ([...per.get(y)!].sort().join(',') !== shape) return null;
+  const links: { pred: number; out: boolean }[] = [], classes: number[] = [];
+  for (const k of per.get(ys[0]!)!) {
+    if (k[0] === 'u') classes.push(Number(k.slice(1))); else links.push({ pred: Number(k.slice(1)), out: k[0] === 'o' });
+  }
+  if (links.length === 0 || centre < 0) return null;
+  return { centre, ys, links, classes, centreClasses };
+}
+
+/** The slots of a head whose disjuncts are exactly yᵢ ≈ yⱼ for every pair of them, else null. */
+function pairwiseEqualities(head: readonly { atoms: readonly CompiledAtom[]; exists: readonly number[] }[]): number[] | null {
+  if (head.length === 0) return null;
+  const vars = new Set<number>(), pairs = new Set<number>();
+  for (const d of head) {
+    const a = d.atoms[0];
+    if (d.atoms.length !== 1 || d.exists.length > 0 || a!.kind !== EQUAL || a!.a === a!.b) return null;
+    vars.add(a!.a); vars.add(a!.b);
+    pairs.add(Math.min(a!.a, a!.b) * 65536 + Math.max(a!.a, a!.b));
+  }
+  return pairs.size === head.length && pairs.size === (vars.size * (vars.size - 1)) / 2 ? [...vars] : null;
+}
+
+/**
+ * The classes whose elements an existential rule gives successors: the class of an existential rule's one-atom body,
+ * and, to a fixpoint, the body class of a one-atom Datalog rule whose head has such a class.
+ */
+function generatingClasses(rules: readonly CompiledRule[]): Set<number> {
+  const gen = new Set<number>();
+  for (const r of rules) if (r.shape === 'existential' && r.body.length === 1 && r.body[0]!.kind === UNARY && r.body[0]!.pred !== TOP_ID) gen.add(r.body[0]!.pred);
+  for (let changed = gen.size > 0; changed;) {
+    changed = false;
+    for (const r of rules) {
+      if (r.shape !== 'datalog' || r.body.length !== 1 || r.body[0]!.kind !== UNARY || gen.has(r.body[0]!.pred)) continue;
+      if (r.head[0]!.atoms.some((a) => a.kind === UNARY && a.a === r.body[0]!.a && gen.has(a.pred))) { gen.add(r.body[0]!.pred); changed = true; }
+    }
+  }
+  return gen;
+}
+
+/** Puts the disjuncts of each disjunctive head that lead to no existential rule first (CompiledRule.quiet). */
+function quietFirst(rules: CompiledRule[]): void {
+  const gen = generatingClasses(rules);
+  if (gen.size === 0) return;
+  rules.forEach((r, i) => {
+    if (r.shape !== 'disjunctive' || r.pairwiseEq !== null) return;
+    const loud = (d: CompiledDisjunct) => d.atoms.some((a) => a.kind === UNARY && gen.has(a.pred));
+    const quiet = r.head.filter((d) => !loud(d));
+    if (quiet.length === r.head.length || quiet.length === 0) return;
+    rules[i] = { ...r, head: [...quiet, ...r.head.filter(loud)], quiet: quiet.length };
+  });
+}
+
 /** Compiles a rule program; class and property names of the vocabulary get ids even when no rule mentions them. */
 export function compileProgram(program: RuleProgram, extraRules: readonly Rule[] = []): CompiledProgram {
   const unaryIds = new Map<string, number>([[TOP, TOP_ID]]), binaryIds = new Map<string, number>([[DISTINCT, DISTINCT_ID]]);
@@ -108,13 +214,18 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
       if (d.exists.length > 0 && rule.head.length > 1) throw new Error('an existential disjunct inside a disjunction is not supported by the chase');
       const exists = d.exists.map(slot);
       const atoms = d.atoms.map(atom);
+      const known = new Set(exists);
       for (const a of atoms) for (const v of a.kind === UNARY ? [a.a] : [a.a, a.b]) {
-        if (v >= bodyVars && !exists.includes(v)) throw new Error('a head variable is neither in the body nor existential');
+        if (v >= bodyVars && !known.has(v)) throw new Error('a head variable is neither in the body nor existential');
       }
-      const test = order(atoms.filter((a) => a.kind !== EQUAL).map((a) => ({ atom: a, bodyIndex: -1 })), new Set(Array.from({ length: bodyVars }, (_, i) => i)));
-      return { exists, atoms, test };
+      const counting = exists.length >= 2 ? countingTemplate(atoms, exists, true) : null;
+      const tested = counting !== null ? [] : atoms.filter((a) => a.kind !== EQUAL);
+      const test = tested.length === 0 ? [] : order(tested.map((a) => ({ atom: a, bodyIndex: -1 })), new Set(Array.from({ length: bodyVars }, (_, i) => i)));
+      return { exists, atoms, test, counting };
     });
-    const plans = body.map((a, i) => [{ atom: a, bodyIndex: i }, ...order(body.map((atom, j) => ({ atom, bodyIndex: j })).filter((x) => x.bodyIndex !== i), new Set(a.kind === UNARY ? [a.a] : [a.a, a.b]))]);
+    const pairwiseEq = pairwiseEqualities(head);
+    const countingBody = pairwiseEq !== null && pairwiseEq.length === bodyVars - 1 ? countingTemplate(body, pairwiseEq, false) : null;
+    const plans = countingBody !== null ? [] : body.map((a, i) => [{ atom: a, bodyIndex: i }, ...order(body.map((atom, j) => ({ atom, bodyIndex: j })).filter((x) => x.bodyIndex !== i), new Set(a.kind === UNARY ? [a.a] : [a.a, a.b]))]);
     const shape = ruleShape(rule);
     let center = -1;
     if (shape === 'existential') {
@@ -126,8 +237,9 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
       if (center < 0) throw new Error('an existential rule must link each new element to a body variable');
     }
     const symmetric = (rule.symmetric ?? []).map((v) => slots.get(v)!).filter((v) => v !== undefined && v < bodyVars);
-    return { id, shape, body, head, bodyVars, vars: slots.size, plans, center, rule, symmetric };
+    return { id, shape, body, head, bodyVars, vars: slots.size, plans, center, rule, symmetric, countingBody, pairwiseEq, quiet: head.length };
   });
+  quietFirst(rules);
   const readersOfUnary: [number, number][][] = unaryNames.map(() => []), readersOfBinary: [number, number][][] = binaryNames.map(() => []);
   for (const r of rules) r.body.forEach((a, i) => {
     if (a.kind === UNARY) readersOfUnary[a.pred]!.push([r.id, i]);

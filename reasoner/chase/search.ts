@@ -152,7 +152,8 @@ export function search(chase: Chase, guard: Guard, hooks: SearchHooks, options: 
     guard.branch();
     const rule = chase.loadInstance(chase.pending, top.instance)!;
     const next = (top.start + top.tried) % top.count;
-    const d = options.reverse ? top.count - 1 - next : next;
+    // Reversed, each group of the head is reversed on its own: the quiet disjuncts still go first (CompiledRule.quiet).
+    const d = !options.reverse ? next : next < rule.quiet ? rule.quiet - 1 - next : top.count - 1 - (next - rule.quiet);
     return chase.applyDisjunct(rule, d, deps.union(top.instanceDep, deps.single(stack.length))) && run(chase, deferDeep);
   };
   const lastBranch = options.budget === undefined ? Infinity : guard.branches + options.budget;

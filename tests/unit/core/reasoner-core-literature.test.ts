@@ -2,7 +2,7 @@
 // entailed facts out). Each case names its source; "from memory" where the example is recalled, not copied.
 
 import { describe, expect, it } from 'vitest';
-import { atLeast, atMost, engineFacts, only, role, some, sub } from './kb-tools.js';
+import { atLeast, atMost, engineFacts, only, role, some, sortedFacts, sub } from './kb-tools.js';
 import { aspProgram, clingoFacts } from '../../reference/asp-reference.js';
 import type { TinyKb } from '../../reference/asp-reference.js';
 
@@ -108,5 +108,53 @@ describe('worked examples', () => {
 
   it('the element guard ends a run that needs more anonymous elements than allowed', async () => {
     await expect(engineFacts({ axioms: [atLeast('A', 3, R, 'A')], classFacts: [['A', 'a']], propertyFacts: [] }, 'optimised', { maxElements: 5 })).rejects.toThrow(/element limit/);
+  });
+});
+
+// Number restrictions of sizes the rules cannot be joined at (reasoner/chase/counting.ts). Expected answers by the
+// arithmetic of the OWL 2 Direct Semantics (W3C, §2.3, Table 4: ≥n R.C has at least n R-successors in C, ≤n R.C at
+// most n; hand-derived), and clingo's cautious consequences where the knowledge base has no existential.
+describe('number restrictions of any size', () => {
+  const ofLeft = (axioms: TinyKb['axioms']): TinyKb => ({ axioms, classFacts: [['Left', 'x']], propertyFacts: [] });
+
+  it('≥100 R stops with its successors; ≥100 R ⊓ ≤99 R is inconsistent, ≥100 R ⊓ ≤100 R is not', async () => {
+    for (const path of ['optimised', 'plain'] as const) {
+      expect([...(await engineFacts(ofLeft([atLeast('Left', 100, R, null)]), path))!]).toEqual(['Left(x)']);
+      expect(await engineFacts(ofLeft([atLeast('Left', 100, R, null), atMost('Left', 99, R, null)]), path)).toBeNull();
+      expect([...(await engineFacts(ofLeft([atLeast('Left', 100, R, null), atMost('Left', 100, R, null)]), path))!]).toEqual(['Left(x)']);
+    }
+  });
+
+  // 60 R-successors in B and 60 in C, B and C disjoint: at least 120 distinct R-successors.
+  it('≥60 R.B ⊓ ≥60 R.C with B, C disjoint needs 120 successors: ≤119 R clashes, ≤120 R does not', async () => {
+    const base = [atLeast('Left', 60, R, 'B'), atLeast('Left', 60, R, 'C'), sub(['B', 'C'], [])];
+    expect(await engineFacts(ofLeft([...base, atMost('Left', 119, R, null)]))).toBeNull();
+    expect([...(await engineFacts(ofLeft([...base, atMost('Left', 120, R, null)])))!]).toEqual(['Left(x)']);
+  });
+
+  // A functional property (≤1 R) with 30 named values makes them one individual: 30 · 29 sameAs facts.
+  it('≤1 R with 30 named successors: every pair is the same individual, as clingo finds', async () => {
+    const ys = Array.from({ length: 30 }, (_, i) => `y${i}`);
+    const kb: TinyKb = { axioms: [atMost('Left', 1, R, null)], classFacts: [['Left', 'x']], propertyFacts: ys.map((y) => ['R', 'x', y] as const) };
+    const facts = (await engineFacts(kb))!;
+    expect([...facts].filter((f) => f.includes('=')).length).toBe(30 * 29);
+    expect(sortedFacts(facts)).toBe(sortedFacts(clingoFacts(aspProgram(kb))));
+  });
+
+  // ≤2 R with three B-successors and two C-successors, B and C disjoint: the B ones are one individual, the C ones
+  // another (two distinct values at most, and a B is never a C); with a third C-successor that differs, a clash.
+  it('≤2 R over five named successors of two disjoint classes merges each class, as clingo finds', async () => {
+    const kb: TinyKb = {
+      axioms: [atMost('Left', 2, R, null), sub(['B', 'C'], [])],
+      classFacts: [['Left', 'x'], ['B', 'b1'], ['B', 'b2'], ['B', 'b3'], ['C', 'c1'], ['C', 'c2']],
+      propertyFacts: ['b1', 'b2', 'b3', 'c1', 'c2'].map((y) => ['R', 'x', y] as const),
+    };
+    const facts = (await engineFacts(kb))!;
+    for (const f of ['b1=b2', 'b2=b3', 'b1=b3', 'c1=c2', 'c2=c1']) expect(facts.has(f)).toBe(true);
+    expect(facts.has('b1=c1')).toBe(false);
+    expect(sortedFacts(facts)).toBe(sortedFacts(clingoFacts(aspProgram(kb))));
+    expect([...(await engineFacts(kb, 'plain'))!].sort()).toEqual([...facts].sort());
+    const three: TinyKb = { ...kb, classFacts: [...kb.classFacts, ['B', 'b4']], propertyFacts: [...kb.propertyFacts, ['R', 'x', 'b4']], different: [['b1', 'b4']] };
+    expect(await engineFacts(three)).toBeNull();
   });
 });
