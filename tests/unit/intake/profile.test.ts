@@ -108,3 +108,26 @@ describe('Horn classification agrees with the Horn-DL syntax in the literature',
     });
   }
 });
+
+describe('number restrictions past the limit of ours', () => {
+  // Not a rule of ALCHIQ but a limit of ours (profile.ts, MAX_CARDINALITY): the rules of ≥n and ≤n grow with n².
+  it('refuses number restrictions above 999 with the axiom and its position, and keeps 999', () => {
+    const onto = parseOfn([
+      'Prefix(:=<http://thence.example/check#>)',
+      'Ontology(',
+      'SubClassOf(:A ObjectMinCardinality(5000 :r))',
+      'SubClassOf(:B ObjectMaxCardinality(1000 :r :C))',
+      'SubClassOf(:D ObjectExactCardinality(999 :r))',
+      ')',
+    ].join('\n'), 'large.ofn');
+    const large = checkProfile(onto, 'strict');
+    expect(large.verdict).toBe('outside');
+    const lines = byLine(large);
+    for (const l of [3, 4]) {
+      expect(lines.get(l)?.classification).toBe('outside');
+      expect(lines.get(l)?.reasons.join(' ')).toMatch(/number restriction above 999/);
+    }
+    expect(lines.get(5)?.classification).not.toBe('outside');
+    expect(profileDiagnostics(large).filter((d) => d.severity === 'error').map((d) => d.position)).toEqual(['large.ofn:3:1', 'large.ofn:4:1']);
+  });
+});
