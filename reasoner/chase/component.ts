@@ -134,8 +134,7 @@ const GROUP = 512;
  * to what each new model shares with the earlier ones (at most |candidates| + 1 models).
  */
 function chaseComponent(program: CompiledProgram, named: number, load: (c: Chase) => void, guard: Guard, plain: boolean, stats: EntailStats): { facts?: NamedFacts; live?: Chase; clash?: ClashReport | null } {
-  const chase = new Chase(program, named, guard);
-  chase.singleBlocking = !plain && !program.equalities;
+  const chase = new Chase(program, named, guard, !plain && !program.equalities);
   load(chase);
   if (chase.clash !== null) return { clash: clashReport(chase) };
   let firstClash: ClashReport | null | undefined;

@@ -78,8 +78,6 @@ export class Chase {
   private lastBlocked: Uint8Array | null = null;
   /** Blockers verified in earlier rounds (blocking.ts). */
   private readonly blockers = new BlockerCache();
-  /** Block on the element's label alone (blocking.ts): set by the optimised path for programs without ≈ heads. */
-  singleBlocking = false;
   /** The rules with a counting body (≤n, counting.ts), and the (rule, centre) pairs to count again this round. */
   private readonly countingRules: readonly CompiledRule[];
   /** Constraints on the classes of one element (disjointness): checked in `merge` before edges are rewritten. */
@@ -94,7 +92,11 @@ export class Chase {
   /** Join steps taken, so that long joins check the guard too. */
   private joinSteps = 0;
 
-  constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard) {
+  /**
+   * `singleBlocking`: block on the element's label alone (blocking.ts), which the optimised path asks for on programs
+   * without ≈ heads; else pairwise.
+   */
+  constructor(readonly program: CompiledProgram, named: number, private readonly guard: Guard, private readonly singleBlocking = false) {
     this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
     this.maxVars = Math.max(1, ...program.rules.map((r) => r.vars));
     this.env = new Int32Array(this.maxVars);
