@@ -80,6 +80,8 @@ export class Chase {
   private readonly blockers = new BlockerCache();
   /** The rules with a counting body (≤n, counting.ts), and the (rule, centre) pairs to count again this round. */
   private readonly countingRules: readonly CompiledRule[];
+  /** The counting rules by the predicate of their first link (R(c, y): out), for `queueAround`. */
+  private readonly countingByLink = new Map<number, { rule: number; out: boolean }[]>();
   /** Constraints on the classes of one element (disjointness): checked in `merge` before edges are rewritten. */
   private readonly classConstraints: readonly CompiledRule[];
   private readonly countQueue: number[] = [];
@@ -101,6 +103,12 @@ export class Chase {
     this.maxVars = Math.max(1, ...program.rules.map((r) => r.vars));
     this.env = new Int32Array(this.maxVars);
     this.countingRules = program.rules.filter((r) => r.countingBody !== null);
+    for (const r of this.countingRules) {
+      const l = r.countingBody!.links[0]!;
+      let list = this.countingByLink.get(l.pred);
+      if (list === undefined) this.countingByLink.set(l.pred, (list = []));
+      list.push({ rule: r.id, out: l.out });
+    }
     this.classConstraints = program.rules.filter((r) => r.shape === 'constraint' && r.body.every((a) => a.kind === UNARY && a.a === 0));
   }
 
@@ -171,21 +179,42 @@ export class Chase {
     const clashRow = st.binaryRow(DISTINCT_ID, to, to);
     if (clashRow >= 0) { this.clash = { rule, env: Array.from(env), distinct: [to, from], dep: deps.union(dep, st.binaryDep[clashRow]!) }; return false; }
     // Successors that were two may now be one (no new row says so): the ≤n centres around `to` are counted again.
-    for (const r of this.countingRules) { this.queueCount(r.id, to); forEachCentre(st, r.countingBody!, to, (c) => this.queueCount(r.id, c)); }
+    if (this.countingRules.length > 0) this.queueAround(to);
     return true;
   }
 
+  /**
+   * Queues the ≤n centres an element's rows make it part of: itself, where it is the centre of a rule's first link,
+   * and the element at the other end, where it is the successor. Costs the element's rows, not the number of rules.
+   */
+  private queueAround(e: number): void {
+    const st = this.store, by = this.countingByLink;
+    for (let r = st.firstBinaryWithSubject(e); r >= 0; r = st.nextBinaryWithSubject(r)) {
+      const rules = by.get(st.binaryPred[r]!);
+      if (rules !== undefined && st.binaryValid(r)) for (const x of rules) this.queueCount(x.rule, x.out ? e : st.binaryObj[r]!);
+    }
+    for (let r = st.firstBinaryWithObject(e); r >= 0; r = st.nextBinaryWithObject(r)) {
+      const rules = by.get(st.binaryPred[r]!);
+      if (rules !== undefined && st.binaryValid(r)) for (const x of rules) this.queueCount(x.rule, x.out ? st.binarySubj[r]! : e);
+    }
+  }
+
   private queueCount(rule: number, centre: number): void {
-    const key = centre * this.program.rules.length + rule;
-    if (this.countQueued.has(key)) return;
-    this.countQueued.add(key); this.countQueue.push(rule, centre);
+    // Deduplicated within a round while the set is of moderate size; past it a pair may be counted twice (harmless).
+    const key = centre * this.program.rules.length + rule, seen = this.countQueued;
+    if (seen.size < 1 << 20) { if (seen.has(key)) return; seen.add(key); }
+    this.countQueue.push(rule, centre);
   }
 
   /** A delta row read by a ≤n body: queues the centres whose successors it may have changed. */
   private queueCounting(rule: CompiledRule, i: number, row: number): void {
     const t = rule.countingBody!, atom = rule.body[i]!, st = this.store;
     if (atom.kind !== UNARY) this.queueCount(rule.id, atom.a === t.centre ? st.binarySubj[row]! : st.binaryObj[row]!);
-    else if (atom.a === t.centre) this.queueCount(rule.id, st.unaryElem[row]!);
+    else if (atom.a === t.centre) {
+      // A class of the centre: counted only if the centre has a successor by the first link at all (one lookup).
+      const x = st.unaryElem[row]!, l = t.links[0]!;
+      if ((l.out ? st.firstBinaryFrom(l.pred, x) : st.firstBinaryTo(l.pred, x)) >= 0) this.queueCount(rule.id, x);
+    }
     else forEachCentre(st, t, st.unaryElem[row]!, (c) => this.queueCount(rule.id, c));
   }
 

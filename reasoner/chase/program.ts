@@ -244,7 +244,8 @@ export function compileProgram(program: RuleProgram, extraRules: readonly Rule[]
   for (const r of rules) r.body.forEach((a, i) => {
     // A counting body reads a row once for all its successors: the atoms of y₁ and of the centre stand for the rest.
     const t = r.countingBody;
-    if (t !== null && a.a !== t.ys[0] && a.b !== t.ys[0] && !(a.kind === UNARY && a.a === t.centre)) return;
+    // ⊤(c) reads every new element and says nothing a link row does not say again.
+    if (t !== null && a.a !== t.ys[0] && a.b !== t.ys[0] && !(a.kind === UNARY && a.a === t.centre && a.pred !== TOP_ID)) return;
     if (a.kind === UNARY) readersOfUnary[a.pred]!.push([r.id, i]);
     else if (a.kind === BINARY) readersOfBinary[a.pred]!.push([r.id, i]);
   });

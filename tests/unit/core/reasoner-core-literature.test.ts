@@ -157,6 +157,21 @@ describe('number restrictions of any size', () => {
     expect(sortedFacts(facts)).toBe(sortedFacts(clingoFacts(aspProgram(kb))));
   });
 
+  // Functional properties are ⊤ ⊑ ≤1 R (OWL 2 Structural Specification §9.2.4 with the Direct Semantics of ≤1;
+  // hand-derived): two values of one are the same individual. 200 of them over 90 000 elements: counting queued
+  // every element's ⊤ for every rule (18 million pairs) and stopped with "Set maximum size exceeded"; now a ⊤ row is
+  // not read and each merge queues only the centres its own rows touch.
+  it('200 functional properties over 30 000 subjects with two values each: every pair of values is one individual', async () => {
+    const axioms = Array.from({ length: 200 }, (_, k) => atMost('⊤', 1, role(`f${k}`), null));
+    const propertyFacts: (readonly [string, string, string])[] = [];
+    for (let i = 0; i < 30_000; i++) propertyFacts.push([`f${i % 200}`, `p${i}`, `v${i}`], [`f${i % 200}`, `p${i}`, `w${i}`], [`f${(i + 1) % 200}`, `p${i}`, `p${(i + 7) % 30_000}`]);
+    const facts = (await engineFacts({ axioms, classFacts: [], propertyFacts }))!;
+    const same = [...facts].filter((f) => f.includes('='));
+    expect(same).toHaveLength(60_000);
+    expect(facts.has('v123=w123') && facts.has('w123=v123')).toBe(true);
+    expect(facts.has('v1=v2')).toBe(false);
+  });
+
   // ≤2 R with three B-successors and two C-successors, B and C disjoint: the B ones are one individual, the C ones
   // another (two distinct values at most, and a B is never a C); with a third C-successor that differs, a clash.
   it('≤2 R over five named successors of two disjoint classes merges each class, as clingo finds', async () => {
