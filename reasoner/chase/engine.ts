@@ -7,7 +7,7 @@ import { DISTINCT_ID, FactStore, type StoreMark } from './store.js';
 import { BlockerCache, blockedElements } from './blocking.js';
 import type { Guard } from './guard.js';
 import { DependencySets } from './dependencies.js';
-import { countedSuccessors, forEachCentre, hasDistinctSubset, pickViolation } from './counting.js';
+import { CountingQueue, countedSuccessors, hasDistinctSubset } from './counting.js';
 
 /** What closed a branch: the rule whose body matched (constraint, or an equality against ≉) and the matched elements. */
 export interface Clash {
@@ -78,18 +78,12 @@ export class Chase {
   private lastBlocked: Uint8Array | null = null;
   /** Blockers verified in earlier rounds (blocking.ts). */
   private readonly blockers = new BlockerCache();
-  /** The rules with a counting body (≤n, counting.ts), and the (rule, centre) pairs to count again this round. */
-  private readonly countingRules: readonly CompiledRule[];
-  /** The counting rules by the predicate of their first link (R(c, y): out), for `queueAround`. */
-  private readonly countingByLink = new Map<number, { rule: number; out: boolean }[]>();
+  /** The ≤n centres to count again (counting.ts). */
+  private readonly counting: CountingQueue;
   /** Constraints on the classes of one element (disjointness): checked in `merge` before edges are rewritten. */
   private readonly classConstraints: readonly CompiledRule[];
-  private readonly countQueue: number[] = [];
-  private readonly countQueued = new Set<number>();
-  /** Per counting rule: centre → index of its newest pending instance (checked before another is recorded). */
-  private readonly countingOpen = new Map<number, Map<number, number>>();
+  /** Successors of a ≥n head's centre, counted by `holds`. */
   private readonly counted: number[] = [];
-  private readonly countedDeps: number[] = [];
   private readonly seen = new Set<number>();
   /** Join steps taken, so that long joins check the guard too. */
   private joinSteps = 0;
@@ -102,13 +96,7 @@ export class Chase {
     this.store = new FactStore(program.unaryNames.length, program.binaryNames.length, named);
     this.maxVars = Math.max(1, ...program.rules.map((r) => r.vars));
     this.env = new Int32Array(this.maxVars);
-    this.countingRules = program.rules.filter((r) => r.countingBody !== null);
-    for (const r of this.countingRules) {
-      const l = r.countingBody!.links[0]!;
-      let list = this.countingByLink.get(l.pred);
-      if (list === undefined) this.countingByLink.set(l.pred, (list = []));
-      list.push({ rule: r.id, out: l.out });
-    }
+    this.counting = new CountingQueue(program);
     this.classConstraints = program.rules.filter((r) => r.shape === 'constraint' && r.body.every((a) => a.kind === UNARY && a.a === 0));
   }
 
@@ -122,7 +110,7 @@ export class Chase {
     this.shallow.length = m.shallow; this.shallowCursor = m.shallowCursor;
     this.deltaUnary = Math.min(this.deltaUnary, this.store.unaryCount);
     this.deltaBinary = Math.min(this.deltaBinary, this.store.binaryCount);
-    this.countQueue.length = 0; this.countQueued.clear();
+    this.counting.clear();
     this.clash = null;
   }
 
@@ -179,68 +167,8 @@ export class Chase {
     const clashRow = st.binaryRow(DISTINCT_ID, to, to);
     if (clashRow >= 0) { this.clash = { rule, env: Array.from(env), distinct: [to, from], dep: deps.union(dep, st.binaryDep[clashRow]!) }; return false; }
     // Successors that were two may now be one (no new row says so): the ≤n centres around `to` are counted again.
-    if (this.countingRules.length > 0) this.queueAround(to);
+    if (this.counting.used) this.counting.around(st, to);
     return true;
-  }
-
-  /**
-   * Queues the ≤n centres an element's rows make it part of: itself, where it is the centre of a rule's first link,
-   * and the element at the other end, where it is the successor. Costs the element's rows, not the number of rules.
-   */
-  private queueAround(e: number): void {
-    const st = this.store, by = this.countingByLink;
-    for (let r = st.firstBinaryWithSubject(e); r >= 0; r = st.nextBinaryWithSubject(r)) {
-      const rules = by.get(st.binaryPred[r]!);
-      if (rules !== undefined && st.binaryValid(r)) for (const x of rules) this.queueCount(x.rule, x.out ? e : st.binaryObj[r]!);
-    }
-    for (let r = st.firstBinaryWithObject(e); r >= 0; r = st.nextBinaryWithObject(r)) {
-      const rules = by.get(st.binaryPred[r]!);
-      if (rules !== undefined && st.binaryValid(r)) for (const x of rules) this.queueCount(x.rule, x.out ? st.binarySubj[r]! : e);
-    }
-  }
-
-  private queueCount(rule: number, centre: number): void {
-    // Deduplicated within a round while the set is of moderate size; past it a pair may be counted twice (harmless).
-    const key = centre * this.program.rules.length + rule, seen = this.countQueued;
-    if (seen.size < 1 << 20) { if (seen.has(key)) return; seen.add(key); }
-    this.countQueue.push(rule, centre);
-  }
-
-  /** A delta row read by a ≤n body: queues the centres whose successors it may have changed. */
-  private queueCounting(rule: CompiledRule, i: number, row: number): void {
-    const t = rule.countingBody!, atom = rule.body[i]!, st = this.store;
-    if (atom.kind !== UNARY) this.queueCount(rule.id, atom.a === t.centre ? st.binarySubj[row]! : st.binaryObj[row]!);
-    else if (atom.a === t.centre) {
-      // A class of the centre: counted only if the centre has a successor by the first link at all (one lookup).
-      const x = st.unaryElem[row]!, l = t.links[0]!;
-      if ((l.out ? st.firstBinaryFrom(l.pred, x) : st.firstBinaryTo(l.pred, x)) >= 0) this.queueCount(rule.id, x);
-    }
-    else forEachCentre(st, t, st.unaryElem[row]!, (c) => this.queueCount(rule.id, c));
-  }
-
-  /**
-   * Counts the successors of a ≤n centre (counting.ts) and, when more than n are distinct elements and the centre has
-   * no instance still open, buffers one instance of the rule for `applyAll`, as a join would buffer a match.
-   */
-  private countingMatch(rule: CompiledRule, x: number): void {
-    const t = rule.countingBody!, st = this.store, deps = this.deps;
-    let dep = 0;
-    for (const p of t.centreClasses) { const r = st.unaryRow(p, x); if (r < 0) return; dep = deps.union(dep, st.unaryDep[r]!); }
-    const open = this.countingOpen.get(rule.id)?.get(x);
-    if (open !== undefined && open >= this.pendingCursor && open < this.pending.length && this.pending.rules[open] === rule.id) {
-      const r = this.loadInstance(this.pending, open);
-      if (r !== null && this.env[t.centre] === x && !this.holds(r)) return;
-    }
-    const ys = this.counted, yDeps = this.countedDeps;
-    ys.length = 0; yDeps.length = 0;
-    countedSuccessors(st, t, x, ys, yDeps, deps);
-    if (ys.length < t.ys.length) return;
-    const pick = pickViolation(st, ys, t.ys.length);
-    const env = this.env;
-    env[t.centre] = x;
-    pick.forEach((k, i) => { env[t.ys[i]!] = ys[k]!; dep = deps.union(dep, yDeps[k]!); });
-    this.out.push(rule.id, dep);
-    for (let v = 0; v < rule.bodyVars; v++) this.out.push(env[v]!);
   }
 
   /**
@@ -266,7 +194,7 @@ export class Chase {
   /** Runs the non-generating rules to a fixpoint over the rows added since the last call. Returns false on a clash. */
   saturate(): boolean {
     const st = this.store, prog = this.program;
-    while (this.deltaUnary < st.unaryCount || this.deltaBinary < st.binaryCount || this.countQueue.length > 0) {
+    while (this.deltaUnary < st.unaryCount || this.deltaBinary < st.binaryCount || this.counting.length > 0) {
       this.guard.check(st);
       const u0 = this.deltaUnary, u1 = st.unaryCount, b0 = this.deltaBinary, b1 = st.binaryCount;
       this.out.length = 0;
@@ -280,12 +208,7 @@ export class Chase {
         const readers = prog.readersOfBinary[st.binaryPred[row]!]!;
         for (let k = 0; k < readers.length; k++) this.fromDelta(prog.rules[readers[k]![0]]!, readers[k]![1], row, u0, b0);
       }
-      const q = this.countQueue;
-      for (let k = 0; k < q.length; k += 2) {
-        const x = st.find(q[k + 1]!);
-        if (x >= 0) this.countingMatch(prog.rules[q[k]!]!, x);
-      }
-      q.length = 0; this.countQueued.clear();
+      this.counting.drain(this, this.out);
       this.deltaUnary = u1; this.deltaBinary = b1;
       if (!this.applyAll()) return false;
     }
@@ -294,7 +217,7 @@ export class Chase {
 
   /** Matches the rule with body atom `i` bound to the delta row, atoms before i to old rows, atoms after i to any. */
   private fromDelta(rule: CompiledRule, i: number, row: number, oldUnary: number, oldBinary: number): void {
-    if (rule.countingBody !== null) { this.queueCounting(rule, i, row); return; }
+    if (rule.countingBody !== null) { this.counting.fromRow(this.store, rule, i, row); return; }
     const st = this.store, env = this.env, atom = rule.body[i]!;
     if (atom.kind === UNARY) { env[atom.a] = st.unaryElem[row]!; this.stepDep[0] = st.unaryDep[row]!; }
     else {
@@ -408,11 +331,7 @@ export class Chase {
         case 'disjunctive':
           if (!this.holds(rule)) {
             this.pending.push(rule.id, env, rule.bodyVars, dep);
-            if (rule.countingBody !== null) {
-              let open = this.countingOpen.get(rule.id);
-              if (open === undefined) this.countingOpen.set(rule.id, (open = new Map()));
-              open.set(env[rule.countingBody.centre]!, this.pending.length - 1);
-            }
+            if (rule.countingBody !== null) this.counting.recordOpen(rule.id, env[rule.countingBody.centre]!, this.pending.length - 1);
           }
           break;
         case 'existential':
