@@ -34,7 +34,11 @@ export function runComponent(program: CompiledProgram, task: ComponentTask, guar
     const st = chase.store, u = task.unary, b = task.binary, d = task.different, q = task.same;
     for (let i = 0; i < u.length; i += 2) st.addUnary(u[i]!, u[i + 1]!, -1);
     for (let i = 0; i < b.length; i += 3) st.addBinary(b[i]!, b[i + 1]!, b[i + 2]!, -1);
-    for (let i = 0; i < d.length; i += 2) chase.addDistinct(d[i]!, d[i + 1]!, -1);
+    for (let i = 0; i < d.length; i += 2) {
+      // a ≠ a has no model (OWL 2 Direct Semantics, DifferentIndividuals): no merge would ever find it, so it closes here.
+      if (d[i] === d[i + 1]) { chase.clash = { rule: -1, env: [d[i]!, d[i]!], distinct: [d[i]!, d[i]!], dep: 0 }; return; }
+      chase.addDistinct(d[i]!, d[i + 1]!, -1);
+    }
     for (let i = 0; i < q.length; i += 2) if (!chase.merge(q[i]!, q[i + 1]!, -1, [q[i]!, q[i + 1]!])) return;
   };
   const result = chaseComponent(program, Math.max(1, task.named), load, guard, plain, stats);

@@ -101,6 +101,15 @@ describe('worked examples', () => {
     expect(await engineFacts({ axioms: [sub(['A'], ['B', 'C']), sub(['B'], []), sub(['C'], [])], classFacts: [['A', 'a']], propertyFacts: [] }, 'plain')).toBeNull();
   });
 
+  // DifferentIndividuals(a a), or a owl:differentFrom a, says a ≠ a (OWL 2 Direct Semantics, satisfaction of assertions,
+  // from memory: the listed individuals are interpreted pairwise differently; clingo agrees): no model.
+  it('inconsistency: an individual different from itself', async () => {
+    const kb: TinyKb = { axioms: [], classFacts: [['A', 'a']], propertyFacts: [], different: [['a', 'a']] };
+    expect(await engineFacts(kb)).toBeNull();
+    expect(await engineFacts(kb, 'plain')).toBeNull();
+    expect(clingoFacts(aspProgram(kb))).toBeNull();
+  });
+
   // A TBox with no individual is still inconsistent when ⊤ ⊑ ⊥ follows (the domain is never empty, Direct Semantics §2.2).
   it('an unsatisfiable ⊤ is inconsistent even with no individual', async () => {
     expect(await engineFacts({ axioms: [sub([], ['A']), sub(['A'], [])], classFacts: [], propertyFacts: [] })).toBeNull();
