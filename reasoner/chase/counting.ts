@@ -10,13 +10,19 @@ import { DISTINCT_ID, type FactStore } from './store.js';
 import type { DependencySets } from './dependencies.js';
 import type { Chase } from './engine.js';
 
+type Link = CountingTemplate['links'][number];
+
+/** The rows of a link at its centre c — R(c, ·) for an out-link, R(·, c) else — newest first; -1 ends. */
+const firstAtCentre = (st: FactStore, l: Link, c: number) => (l.out ? st.firstBinaryFrom(l.pred, c) : st.firstBinaryTo(l.pred, c));
+const nextAtCentre = (st: FactStore, l: Link, r: number) => (l.out ? st.nextBinaryFrom(r) : st.nextBinaryTo(r));
+
 /**
  * Appends to `out` the successors y of centre c (a representative) that have every link and class of the template,
  * each once; with `deps`, also the dependency set of each one's rows.
  */
 export function countedSuccessors(st: FactStore, t: CountingTemplate, c: number, out: number[], deps: number[] | null, sets: DependencySets | null): void {
   const first = t.links[0]!;
-  for (let r = first.out ? st.firstBinaryFrom(first.pred, c) : st.firstBinaryTo(first.pred, c); r >= 0; r = first.out ? st.nextBinaryFrom(r) : st.nextBinaryTo(r)) {
+  for (let r = firstAtCentre(st, first, c); r >= 0; r = nextAtCentre(st, first, r)) {
     if (!st.binaryValid(r)) continue;
     const y = first.out ? st.binaryObj[r]! : st.binarySubj[r]!;
     let dep = st.binaryDep[r]!, ok = true;
@@ -137,8 +143,8 @@ export class CountingQueue {
     if (atom.kind !== UNARY) this.add(rule.id, atom.a === t.centre ? st.binarySubj[row]! : st.binaryObj[row]!);
     else if (atom.a === t.centre) {
       // A class of the centre: counted only if the centre has a successor by the first link at all (one lookup).
-      const x = st.unaryElem[row]!, l = t.links[0]!;
-      if ((l.out ? st.firstBinaryFrom(l.pred, x) : st.firstBinaryTo(l.pred, x)) >= 0) this.add(rule.id, x);
+      const x = st.unaryElem[row]!;
+      if (firstAtCentre(st, t.links[0]!, x) >= 0) this.add(rule.id, x);
     } else forEachCentre(st, t, st.unaryElem[row]!, (c) => this.add(rule.id, c));
   }
 

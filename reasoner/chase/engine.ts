@@ -371,9 +371,10 @@ export class Chase {
     for (const d of rule.head) {
       if (d.counting !== null) {
         const c = st.find(env[d.counting.centre]!), ys = this.counted;
+        if (c < 0) continue;
         ys.length = 0;
-        if (c >= 0) countedSuccessors(st, d.counting, c, ys, null, null);
-        if (c >= 0 && hasDistinctSubset(st, ys, d.counting.ys.length)) return true;
+        countedSuccessors(st, d.counting, c, ys, null, null);
+        if (hasDistinctSubset(st, ys, d.counting.ys.length)) return true;
         continue;
       }
       let eqOk = true;
